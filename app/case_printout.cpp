@@ -1,0 +1,138 @@
+#include "case_printout.hpp"
+
+#include <fmt/format.h>
+#include <fmt/ostream.h>
+
+#include <map>
+#include <numbers>
+
+namespace gapflux {
+namespace {
+
+constexpr double mm = 1e-3;
+constexpr double to_deg = 180.0 / std::numbers::pi;
+
+}  // namespace
+
+void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam,
+                         const MeshSettings& mesh) {
+  const auto& s = c.stator.slot;
+  fmt::print(out, "# resolved case: {}\n", c.file);
+  fmt::print(out, "[machine]\nname = \"{}\"\npoles = {}\nstack_length_mm = {:g}\n\n", c.machine.name,
+             c.machine.poles, c.machine.stack_length_m / mm);
+  fmt::print(out, "[stator]\nouter_diameter_mm = {:g}\nbore_diameter_mm = {:g}\nslots = {}\n\n",
+             c.stator.outer_diameter_m / mm, c.stator.bore_diameter_m / mm, c.stator.slots);
+  fmt::print(out, "[stator.slot]\nshape = \"{}\"\nslot_depth_mm = {:g}\n", to_string(s.shape),
+             s.slot_depth_m / mm);
+  switch (s.shape) {
+    case SlotShape::semi_closed:
+      fmt::print(out, "opening_width_mm = {:g}\ntip_height_mm = {:g}\nwedge_angle_deg = {:g}\n",
+                 s.opening_width_m / mm, s.tip_height_m / mm, s.wedge_angle_rad * to_deg);
+      fmt::print(out, "body = \"{}\"\n", to_string(s.body));
+      if (s.body == SlotBody::parallel_tooth) fmt::print(out, "tooth_width_mm = {:g}\n", s.tooth_width_m / mm);
+      else fmt::print(out, "slot_width_mm = {:g}\n", s.slot_width_m / mm);
+      fmt::print(out, "bottom = \"{}\"\n", to_string(s.bottom));
+      break;
+    case SlotShape::open:
+      fmt::print(out, "slot_width_mm = {:g}\nwedge_height_mm = {:g}\nbottom = \"{}\"\n",
+                 s.slot_width_m / mm, s.wedge_height_m / mm, to_string(s.bottom));
+      break;
+    case SlotShape::open_radial:
+      fmt::print(out, "slot_angle_deg = {:g}\nwedge_height_mm = {:g}\n", s.slot_angle_rad * to_deg,
+                 s.wedge_height_m / mm);
+      break;
+  }
+  const auto& r = c.rotor;
+  fmt::print(out, "\n[rotor]\nkind = \"{}\"\nouter_diameter_mm = {:g}\nshaft_diameter_mm = {:g}\n",
+             to_string(r.kind), r.outer_diameter_m / mm, r.shaft_diameter_m / mm);
+  if (r.kind == RotorKind::cage) {
+    const auto& b = r.bar;
+    fmt::print(out, "bars = {}\n\n[rotor.bar]\nshape = \"{}\"\n", r.bars, to_string(b.shape));
+    switch (b.shape) {
+      case BarShape::round: fmt::print(out, "diameter_mm = {:g}\n", b.diameter_m / mm); break;
+      case BarShape::teardrop:
+        fmt::print(out, "top_radius_mm = {:g}\nbottom_radius_mm = {:g}\nheight_mm = {:g}\n",
+                   b.top_radius_m / mm, b.bottom_radius_m / mm, b.height_m / mm);
+        break;
+      case BarShape::rectangular:
+        fmt::print(out, "width_mm = {:g}\nheight_mm = {:g}\n", b.width_m / mm, b.height_m / mm);
+        break;
+    }
+    fmt::print(out, "closure = \"{}\"\n", to_string(b.closure));
+    if (b.closure == BarClosure::closed)
+      fmt::print(out, "bridge_thickness_mm = {:g}\n", b.bridge_thickness_m / mm);
+    else
+      fmt::print(out, "opening_width_mm = {:g}\nopening_height_mm = {:g}\n", b.opening_width_m / mm,
+                 b.opening_height_m / mm);
+  }
+  const auto& w = c.winding;
+  fmt::print(out, "\n[winding]\nlayers = {}\ncoil_pitch_slots = {}\nturns_per_coil = {}\nparallel_paths = {}\n",
+             w.layers, w.coil_pitch_slots, w.turns_per_coil, w.parallel_paths);
+  const auto& m = c.materials;
+  fmt::print(out, "\n[materials]\nstator_iron = \"{}\"\nrotor_iron = \"{}\"\ncoils = \"{}\"\nbars = \"{}\"\nshaft = \"{}\"\n",
+             m.stator_iron, m.rotor_iron, m.coils, m.bars, m.shaft);
+  const auto& sp = c.supply;
+  fmt::print(out, "\n[supply]\nfeed = \"current\"\nfrequency_hz = {:g}\nrms_a = {:g}\n", sp.frequency_hz, sp.rms_a);
+  const char* names[3] = {"a", "b", "c"};
+  for (int k = 0; k < 3; ++k)
+    fmt::print(out, "phases.{} = {{ rms_a = {:g}, angle_deg = {:g} }}\n", names[k], sp.phases[k].rms_a,
+               sp.phases[k].angle_rad * to_deg);
+  fmt::print(out, "\n[mesh]\norder = {}\nairgap_size_mm = {:g}\niron_size_mm = {:g}\ngrowth_rate = {:g}\nband_nodes = {}\nsymmetry = \"{}\"\n",
+             mesh.order, mesh.airgap_size_m / mm, mesh.iron_size_m / mm, mesh.growth_rate,
+             mesh.band_nodes, to_string(c.mesh.symmetry));
+  fmt::print(out, "\n[study]\nkind = \"static\"\nrotor_angle_deg = {:g}\ntime_s = {:g}\n",
+             c.study.rotor_angle_rad * to_deg, c.study.time_s);
+  fmt::print(out, "\n[output]\nfields_every = {}\n", c.output.fields_every);
+
+  const auto& sd = lam.slot;
+  const auto& sym = lam.symmetry;
+  fmt::print(out, "\n# derived\n");
+  fmt::print(out, "airgap_mm = {:.4f}\n", lam.airgap_m() / mm);
+  fmt::print(out, "band_radii_mm = [{:.4f}, {:.4f}]\n", lam.band_inner_radius_m / mm,
+             lam.band_outer_radius_m / mm);
+  fmt::print(out, "slots_per_pole_per_phase = {:.4f}\n", double(lam.slots) / (3.0 * lam.poles));
+  fmt::print(out, "slot_pitch_at_bore_mm = {:.4f}\n", sd.slot_pitch_at_bore_m / mm);
+  fmt::print(out, "tooth_width_min_mm = {:.4f}\n", sd.tooth_width_min_m / mm);
+  fmt::print(out, "slot_area_mm2 = {:.4f}\n", sd.slot_area_m2 / (mm * mm));
+  fmt::print(out, "winding_area_mm2 = {:.4f}\n", sd.winding_area_m2 / (mm * mm));
+  if (lam.layers == 2)
+    fmt::print(out, "coil_side_areas_mm2 = [{:.4f}, {:.4f}]\n", sd.coil_side_area_m2[0] / (mm * mm),
+               sd.coil_side_area_m2[1] / (mm * mm));
+  fmt::print(out, "stator_yoke_height_mm = {:.4f}\n", sd.yoke_height_m / mm);
+  if (lam.bars > 0) {
+    fmt::print(out, "bar_pitch_at_surface_mm = {:.4f}\n", lam.bar.bar_pitch_at_surface_m / mm);
+    fmt::print(out, "bar_area_mm2 = {:.4f}\n", lam.bar.bar_area_m2 / (mm * mm));
+    fmt::print(out, "rotor_tooth_width_min_mm = {:.4f}\n", lam.bar.rotor_tooth_width_min_m / mm);
+    fmt::print(out, "rotor_yoke_height_mm = {:.4f}\n",
+               (lam.bar.bar_bottom_radius_m - lam.shaft_radius_m) / mm);
+  }
+  fmt::print(out, "symmetry = \"{}\"  # {} of {} sector(s), {:.4f}°, {} slot(s) and {} bar(s) each\n",
+             sym.sectors == 1 ? "full" : (sym.antiperiodic ? "antiperiodic" : "periodic"),
+             1, sym.sectors, sym.sector_angle_rad * to_deg, sym.slots_in_sector, sym.bars_in_sector);
+}
+
+void print_mesh_statistics(std::ostream& out, const Mesh& mesh, const MeshQuality& q) {
+  fmt::print(out, "mesh: order {}, {} triangles, {} vertices, {} nodes\n", mesh.order, q.triangles,
+             q.vertices, q.nodes);
+  fmt::print(out, "quality: min angle {:.2f}°, max aspect ratio {:.3f}\n", q.min_angle_deg,
+             q.max_aspect_ratio);
+  fmt::print(out, "band: {} + {} vertices on r = {:.4f} / {:.4f} mm, pitch {:.5f}°\n",
+             mesh.stator_ring.vertices.size(), mesh.rotor_ring.vertices.size(),
+             mesh.stator_ring.radius_m / mm, mesh.rotor_ring.radius_m / mm,
+             mesh.stator_ring.pitch_rad * to_deg);
+  fmt::print(out, "sector: {} of {}, {} periodic node pairs, {} outer nodes\n", 1,
+             mesh.symmetry.sectors, mesh.periodic_pairs.size(), mesh.outer_nodes.size());
+  fmt::print(out, "area: {:.6f} mm² (sector)\n", q.total_area_m2 / (mm * mm));
+  // Regions summed by kind keep the table short on many-slot machines.
+  std::map<std::string, std::pair<std::size_t, double>> by_kind;
+  for (std::size_t i = 0; i < mesh.regions.size(); ++i) {
+    auto& row = by_kind[to_string(mesh.regions[i].tag.kind)];
+    row.first += q.triangles_per_region[i];
+    row.second += q.area_per_region_m2[i];
+  }
+  fmt::print(out, "{:<20} {:>10} {:>14}\n", "region kind", "triangles", "area_mm2");
+  for (const auto& [kind, row] : by_kind)
+    fmt::print(out, "{:<20} {:>10} {:>14.4f}\n", kind, row.first, row.second / (mm * mm));
+}
+
+}  // namespace gapflux

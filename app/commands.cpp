@@ -1,0 +1,66 @@
+#include "commands.hpp"
+
+#include <fmt/format.h>
+
+#include <filesystem>
+#include <iostream>
+
+#include "case_printout.hpp"
+#include "cases/case_reader.hpp"
+#include "geometry/lamination.hpp"
+#include "geometry/mesher.hpp"
+#include "geometry/moving_band.hpp"
+#include "materials/library.hpp"
+#include "postproc/vtu_writer.hpp"
+
+namespace gapflux {
+namespace {
+
+// Everything a command needs before meshing, fully checked.
+struct Prepared {
+  Case c;
+  Lamination lamination;
+  MeshSettings mesh_settings;
+};
+
+Prepared prepare(const std::string& case_path) {
+  Prepared p;
+  p.c = read_case_file(case_path);
+  check_region_materials(p.c);
+  p.lamination = build_lamination(p.c);
+  p.mesh_settings = resolve_mesh_settings(p.c, p.lamination);
+  return p;
+}
+
+}  // namespace
+
+int command_check(const std::string& case_path, const CommonOptions&) {
+  const Prepared p = prepare(case_path);
+  print_resolved_case(std::cout, p.c, p.lamination, p.mesh_settings);
+  std::cout << "check: ok\n";
+  return 0;
+}
+
+int command_mesh(const std::string& case_path, const std::string& out_dir, const CommonOptions&) {
+  const Prepared p = prepare(case_path);
+  const Mesh mesh = mesh_lamination(p.lamination, p.mesh_settings);
+  const MeshQuality quality = mesh_quality(mesh);
+  std::filesystem::create_directories(out_dir);
+  const BandMesh band = build_moving_band(mesh, 0.0);
+  const std::string path = (std::filesystem::path(out_dir) / "mesh.vtu").string();
+  write_mesh_vtu(path, mesh, &band);
+  fmt::print("case: {} ({})\n", p.c.machine.name, case_path);
+  print_mesh_statistics(std::cout, mesh, quality);
+  fmt::print("wrote {}\n", path);
+  return 0;
+}
+
+int command_run(const std::string& case_path, const std::string&, const CommonOptions&) {
+  prepare(case_path);
+  fmt::print(stderr,
+             "gapflux run: not yet: this version validates and meshes cases (gapflux check, "
+             "gapflux mesh); the field solver arrives in a later version\n");
+  return 1;
+}
+
+}  // namespace gapflux

@@ -1,0 +1,18 @@
+#pragma once
+// The CLI's commands; each returns the process exit code (0 ok, 2 bad input, 3 numerical
+// failure, 1 other) after printing what it did.
+#include <string>
+
+namespace gapflux {
+
+struct CommonOptions {
+  int threads = 0;  // 0: as many as the machine has
+};
+
+int command_check(const std::string& case_path, const CommonOptions& options);
+int command_mesh(const std::string& case_path, const std::string& out_dir,
+                 const CommonOptions& options);
+int command_run(const std::string& case_path, const std::string& out_dir,
+                const CommonOptions& options);
+
+}  // namespace gapflux

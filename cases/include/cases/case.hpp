@@ -1,0 +1,151 @@
+#pragma once
+// A resolved case: every value of a case file after defaults and range checks, in SI units
+// (metres, radians, amperes, hertz). One struct per TOML table; docs/case-file.md lists every key
+// with its unit, range and default. Geometric feasibility is checked in geometry/ (it needs the
+// derived shapes), using `sources` to point back at the line of the offending key.
+#include <string>
+#include <vector>
+
+#include "cases/input_error.hpp"
+
+namespace gapflux {
+
+struct MachineSpec {
+  std::string name;
+  int poles = 0;  // 2p
+  double stack_length_m = 0.0;
+  int pole_pairs() const { return poles / 2; }
+};
+
+enum class SlotShape { semi_closed, open, open_radial };
+enum class SlotBody { parallel_tooth, parallel_slot };
+enum class SlotBottom { round, flat };
+
+// Stator slot; see docs/case-file.md for the drawing that labels each dimension.
+struct StatorSlotSpec {
+  SlotShape shape = SlotShape::semi_closed;
+  // semi_closed: the tooth tip
+  double opening_width_m = 0.0;  // width of the slot opening at the bore
+  double tip_height_m = 0.0;     // radial length of the opening's parallel walls
+  double wedge_angle_rad = 0.0;  // slope of the tip underside, from the tangential direction
+  // semi_closed and open: the slot body
+  SlotBody body = SlotBody::parallel_tooth;
+  double tooth_width_m = 0.0;  // body = parallel_tooth
+  double slot_width_m = 0.0;   // body = parallel_slot, and open slots
+  SlotBottom bottom = SlotBottom::round;
+  // all shapes
+  double slot_depth_m = 0.0;    // from the bore radius to the deepest point of the slot
+  double wedge_height_m = 0.0;  // open, open_radial: radial height of the wedge (no winding)
+  // open_radial: angular width of the annular-sector slot
+  double slot_angle_rad = 0.0;
+};
+
+struct StatorSpec {
+  double outer_diameter_m = 0.0;
+  double bore_diameter_m = 0.0;
+  int slots = 0;  // Q
+  StatorSlotSpec slot;
+};
+
+enum class RotorKind { cage, smooth };
+enum class BarShape { round, teardrop, rectangular };
+enum class BarClosure { closed, semi_open };
+
+struct RotorBarSpec {
+  BarShape shape = BarShape::round;
+  double diameter_m = 0.0;       // round
+  double top_radius_m = 0.0;     // teardrop: radius of the end nearer the airgap
+  double bottom_radius_m = 0.0;  // teardrop: radius of the end nearer the shaft
+  double height_m = 0.0;         // teardrop, rectangular: overall radial height
+  double width_m = 0.0;          // rectangular
+  BarClosure closure = BarClosure::closed;
+  double bridge_thickness_m = 0.0;  // closed: iron between the bar top and the rotor surface
+  double opening_width_m = 0.0;     // semi_open: width of the slit to the airgap
+  double opening_height_m = 0.0;    // semi_open: radial length of the slit
+};
+
+struct RotorSpec {
+  RotorKind kind = RotorKind::cage;
+  double outer_diameter_m = 0.0;
+  double shaft_diameter_m = 0.0;  // 0: no shaft region
+  int bars = 0;                   // R; 0 for a smooth rotor
+  RotorBarSpec bar;
+};
+
+struct WindingSpec {
+  int layers = 2;
+  int coil_pitch_slots = 0;  // 0 until resolved: default full pitch Q/(2p)
+  int turns_per_coil = 0;
+  int parallel_paths = 1;
+};
+
+// Region → material name. Names are resolved against the material library in materials/.
+struct MaterialsSpec {
+  std::string stator_iron;
+  std::string rotor_iron;
+  std::string coils;
+  std::string bars;
+  std::string shaft;
+};
+
+enum class Feed { current };
+
+struct PhaseSpec {
+  double rms_a = 0.0;
+  double angle_rad = 0.0;
+};
+
+struct SupplySpec {
+  Feed feed = Feed::current;
+  double frequency_hz = 50.0;
+  double rms_a = 0.0;  // balanced RMS phase current
+  PhaseSpec phases[3];  // a, b, c after defaults: rms_a and 0, −120°, −240°
+};
+
+enum class Symmetry { automatic, full };
+
+struct MeshSpec {
+  int order = 2;
+  double airgap_size_m = 0.0;  // 0 until resolved: airgap length / 2
+  double iron_size_m = 0.0;    // 0 until resolved: stator slot pitch at the bore / 3
+  double growth_rate = 0.2;    // size increase per unit distance from the airgap
+  int band_nodes = 0;          // nodes on each band circle, full circle; 0: from airgap_size
+  Symmetry symmetry = Symmetry::automatic;
+};
+
+enum class StudyKind { static_field };
+
+struct StudySpec {
+  StudyKind kind = StudyKind::static_field;
+  double rotor_angle_rad = 0.0;
+  double time_s = 0.0;
+};
+
+struct OutputSpec {
+  int fields_every = 1;
+  int airgap_samples = 0;  // 0 until resolved: from the band nodes
+};
+
+struct Case {
+  std::string file;  // as given on the command line
+  MachineSpec machine;
+  StatorSpec stator;
+  RotorSpec rotor;
+  WindingSpec winding;
+  MaterialsSpec materials;
+  SupplySpec supply;
+  MeshSpec mesh;
+  StudySpec study;
+  OutputSpec output;
+  SourceMap sources;
+};
+
+const char* to_string(SlotShape);
+const char* to_string(SlotBody);
+const char* to_string(SlotBottom);
+const char* to_string(RotorKind);
+const char* to_string(BarShape);
+const char* to_string(BarClosure);
+const char* to_string(Symmetry);
+
+}  // namespace gapflux

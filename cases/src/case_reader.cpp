@@ -1,0 +1,381 @@
+// Case file → Case. One parse function per TOML table; each documents its keys' units and checks
+// their ranges (docs/case-file.md is the user-facing list of the same keys).
+#include "cases/case_reader.hpp"
+
+#include <fmt/format.h>
+
+#include <cmath>
+#include <fstream>
+#include <numbers>
+#include <sstream>
+
+#include "table_reader.hpp"
+
+namespace gapflux {
+namespace {
+
+constexpr double mm = 1e-3;
+constexpr double deg = std::numbers::pi / 180.0;
+constexpr double max_length_mm = 10000.0;  // nothing we model is larger than 10 m
+
+// A length in millimetres, strictly positive, returned in metres.
+double length_mm(TableReader& t, const std::string& key, std::optional<double> default_mm,
+                 const std::string& what) {
+  const auto v = t.number(key);
+  if (!v && !default_mm) throw t.missing(key, what + " in mm (a number > 0)");
+  const double value = v ? *v : *default_mm;
+  if (!(value > 0.0) || value > max_length_mm)
+    throw t.error(key, fmt::format("must be a length in mm in (0, {}] (got {})", max_length_mm,
+                                   value));
+  return value * mm;
+}
+
+// A length in millimetres that may be zero.
+double length_or_zero_mm(TableReader& t, const std::string& key, double default_mm) {
+  const double value = t.number(key).value_or(default_mm);
+  if (!(value >= 0.0) || value > max_length_mm)
+    throw t.error(key, fmt::format("must be a length in mm in [0, {}] (got {})", max_length_mm,
+                                   value));
+  return value * mm;
+}
+
+double number_in(TableReader& t, const std::string& key, std::optional<double> dflt, double lo,
+                 double hi, const std::string& unit) {
+  const auto v = t.number(key);
+  if (!v && !dflt) throw t.missing(key, fmt::format("a number in [{}, {}] {}", lo, hi, unit));
+  const double value = v ? *v : *dflt;
+  if (!(value >= lo && value <= hi))
+    throw t.error(key, fmt::format("must be in [{}, {}] {} (got {})", lo, hi, unit, value));
+  return value;
+}
+
+int integer_in(TableReader& t, const std::string& key, std::optional<long long> dflt, long long lo,
+               long long hi) {
+  const auto v = t.integer(key);
+  if (!v && !dflt) throw t.missing(key, fmt::format("an integer in [{}, {}]", lo, hi));
+  const long long value = v ? *v : *dflt;
+  if (value < lo || value > hi)
+    throw t.error(key, fmt::format("must be an integer in [{}, {}] (got {})", lo, hi, value));
+  return static_cast<int>(value);
+}
+
+// One of a fixed set of words; returns its index.
+std::size_t choice(TableReader& t, const std::string& key, const std::vector<std::string>& options,
+                   std::optional<std::size_t> dflt) {
+  const auto v = t.string(key);
+  if (!v) {
+    if (dflt) return *dflt;
+    throw t.missing(key, fmt::format("one of: {}", fmt::join(options, ", ")));
+  }
+  for (std::size_t i = 0; i < options.size(); ++i)
+    if (options[i] == *v) return i;
+  std::string msg = fmt::format("must be one of: {} (got \"{}\")", fmt::join(options, ", "), *v);
+  if (auto guess = nearest_of(*v, options); !guess.empty())
+    msg += fmt::format("; did you mean \"{}\"?", guess);
+  throw t.error(key, msg);
+}
+
+TableReader required_table(TableReader& parent, const std::string& key, const std::string& what) {
+  if (auto t = parent.table(key)) return *t;
+  throw parent.missing(key, fmt::format("a table [{}] with {}", parent.key_path(key), what));
+}
+
+MachineSpec parse_machine(TableReader t) {
+  MachineSpec m;
+  auto name = t.string("name");
+  if (!name || name->empty()) throw t.missing("name", "a non-empty string naming the machine");
+  m.name = *name;
+  m.poles = integer_in(t, "poles", std::nullopt, 2, 128);
+  if (m.poles % 2 != 0)
+    throw t.error("poles", fmt::format("the number of poles must be even (got {})", m.poles));
+  m.stack_length_m = length_mm(t, "stack_length_mm", std::nullopt, "the core stack length");
+  t.finish();
+  return m;
+}
+
+StatorSlotSpec parse_stator_slot(TableReader t) {
+  StatorSlotSpec s;
+  s.shape = static_cast<SlotShape>(
+      choice(t, "shape", {"semi_closed", "open", "open_radial"}, std::nullopt));
+  std::vector<std::pair<std::string, std::string>> not_applicable;
+  const auto not_for = [&](const std::string& key, const std::string& reason) {
+    not_applicable.emplace_back(key, reason);
+  };
+  s.slot_depth_m = length_mm(t, "slot_depth_mm", std::nullopt,
+                             "the slot depth from the bore to the deepest point of the slot");
+  switch (s.shape) {
+    case SlotShape::semi_closed: {
+      s.opening_width_m = length_mm(t, "opening_width_mm", std::nullopt, "the slot opening width");
+      s.tip_height_m = length_mm(t, "tip_height_mm", std::nullopt, "the tooth-tip height");
+      s.wedge_angle_rad =
+          number_in(t, "wedge_angle_deg", 20.0, 0.0, 75.0, "degrees") * deg;
+      s.body = static_cast<SlotBody>(
+          choice(t, "body", {"parallel_tooth", "parallel_slot"}, std::size_t{0}));
+      if (s.body == SlotBody::parallel_tooth) {
+        s.tooth_width_m = length_mm(t, "tooth_width_mm", std::nullopt, "the tooth width");
+        not_for("slot_width_mm", "body = \"parallel_tooth\" takes tooth_width_mm");
+      } else {
+        s.slot_width_m = length_mm(t, "slot_width_mm", std::nullopt, "the slot width");
+        not_for("tooth_width_mm", "body = \"parallel_slot\" takes slot_width_mm");
+      }
+      s.bottom = static_cast<SlotBottom>(choice(t, "bottom", {"round", "flat"}, std::size_t{0}));
+      not_for("wedge_height_mm", "semi-closed slots take tip_height_mm and wedge_angle_deg");
+      not_for("slot_angle_deg", "only open_radial slots have an angular width");
+      break;
+    }
+    case SlotShape::open: {
+      s.body = SlotBody::parallel_slot;
+      s.slot_width_m = length_mm(t, "slot_width_mm", std::nullopt, "the slot width");
+      s.opening_width_m = s.slot_width_m;
+      s.wedge_height_m = length_or_zero_mm(t, "wedge_height_mm", 0.0);
+      s.bottom = static_cast<SlotBottom>(choice(t, "bottom", {"round", "flat"}, std::size_t{1}));
+      for (const char* k : {"opening_width_mm", "tip_height_mm", "wedge_angle_deg"})
+        not_for(k, "open slots have no tooth tips; the opening is the slot width");
+      not_for("tooth_width_mm", "open slots are parallel-sided: give slot_width_mm");
+      not_for("body", "open slots are parallel-sided");
+      not_for("slot_angle_deg", "only open_radial slots have an angular width");
+      break;
+    }
+    case SlotShape::open_radial: {
+      s.slot_angle_rad = number_in(t, "slot_angle_deg", std::nullopt, 0.01, 120.0, "degrees") * deg;
+      s.wedge_height_m = length_or_zero_mm(t, "wedge_height_mm", 0.0);
+      s.bottom = SlotBottom::flat;
+      for (const char* k : {"opening_width_mm", "tip_height_mm", "wedge_angle_deg"})
+        not_for(k, "open_radial slots have no tooth tips");
+      for (const char* k : {"tooth_width_mm", "slot_width_mm", "body", "bottom"})
+        not_for(k, "an open_radial slot is an annular sector: give slot_angle_deg");
+      break;
+    }
+  }
+  t.finish(not_applicable);
+  return s;
+}
+
+StatorSpec parse_stator(TableReader t) {
+  StatorSpec s;
+  s.outer_diameter_m = length_mm(t, "outer_diameter_mm", std::nullopt, "the stator outer diameter");
+  s.bore_diameter_m = length_mm(t, "bore_diameter_mm", std::nullopt, "the stator bore diameter");
+  if (s.bore_diameter_m >= s.outer_diameter_m)
+    throw t.error("bore_diameter_mm",
+                  fmt::format("the bore ({} mm) must be smaller than the outer diameter ({} mm)",
+                              s.bore_diameter_m / mm, s.outer_diameter_m / mm));
+  s.slots = integer_in(t, "slots", std::nullopt, 3, 720);
+  s.slot = parse_stator_slot(required_table(t, "slot", "the slot shape and its dimensions"));
+  t.finish();
+  return s;
+}
+
+RotorBarSpec parse_rotor_bar(TableReader t) {
+  RotorBarSpec b;
+  std::vector<std::pair<std::string, std::string>> not_applicable;
+  b.shape = static_cast<BarShape>(
+      choice(t, "shape", {"round", "teardrop", "rectangular"}, std::nullopt));
+  switch (b.shape) {
+    case BarShape::round:
+      b.diameter_m = length_mm(t, "diameter_mm", std::nullopt, "the bar diameter");
+      for (const char* k : {"top_radius_mm", "bottom_radius_mm", "height_mm", "width_mm"})
+        not_applicable.emplace_back(k, "a round bar takes diameter_mm");
+      break;
+    case BarShape::teardrop:
+      b.top_radius_m = length_mm(t, "top_radius_mm", std::nullopt, "the radius of the bar top");
+      b.bottom_radius_m =
+          length_mm(t, "bottom_radius_mm", std::nullopt, "the radius of the bar bottom");
+      b.height_m = length_mm(t, "height_mm", std::nullopt, "the overall bar height");
+      if (b.height_m <= 2.0 * std::max(b.top_radius_m, b.bottom_radius_m))
+        throw t.error("height_mm",
+                      fmt::format("a teardrop bar must be taller than twice its larger end "
+                                  "radius ({} mm) (got {} mm)",
+                                  2.0 * std::max(b.top_radius_m, b.bottom_radius_m) / mm,
+                                  b.height_m / mm));
+      for (const char* k : {"diameter_mm", "width_mm"})
+        not_applicable.emplace_back(k, "a teardrop bar takes top_radius_mm, bottom_radius_mm "
+                                       "and height_mm");
+      break;
+    case BarShape::rectangular:
+      b.width_m = length_mm(t, "width_mm", std::nullopt, "the bar width");
+      b.height_m = length_mm(t, "height_mm", std::nullopt, "the bar height");
+      for (const char* k : {"diameter_mm", "top_radius_mm", "bottom_radius_mm"})
+        not_applicable.emplace_back(k, "a rectangular bar takes width_mm and height_mm");
+      break;
+  }
+  b.closure = static_cast<BarClosure>(choice(t, "closure", {"closed", "semi_open"}, std::size_t{0}));
+  if (b.closure == BarClosure::closed) {
+    b.bridge_thickness_m = length_mm(t, "bridge_thickness_mm", 0.5, "the bridge thickness");
+    for (const char* k : {"opening_width_mm", "opening_height_mm"})
+      not_applicable.emplace_back(k, "closed bars have a bridge, not an opening");
+  } else {
+    b.opening_width_m = length_mm(t, "opening_width_mm", std::nullopt, "the slit width");
+    b.opening_height_m = length_mm(t, "opening_height_mm", std::nullopt, "the slit height");
+    not_applicable.emplace_back("bridge_thickness_mm", "semi-open bars have an opening instead");
+  }
+  t.finish(not_applicable);
+  return b;
+}
+
+RotorSpec parse_rotor(TableReader t) {
+  RotorSpec r;
+  r.kind = static_cast<RotorKind>(choice(t, "kind", {"cage", "smooth"}, std::size_t{0}));
+  r.outer_diameter_m = length_mm(t, "outer_diameter_mm", std::nullopt, "the rotor outer diameter");
+  r.shaft_diameter_m = length_or_zero_mm(t, "shaft_diameter_mm", 0.0);
+  if (r.shaft_diameter_m >= r.outer_diameter_m)
+    throw t.error("shaft_diameter_mm",
+                  fmt::format("the shaft ({} mm) must be smaller than the rotor ({} mm)",
+                              r.shaft_diameter_m / mm, r.outer_diameter_m / mm));
+  std::vector<std::pair<std::string, std::string>> not_applicable;
+  if (r.kind == RotorKind::cage) {
+    r.bars = integer_in(t, "bars", std::nullopt, 3, 720);
+    r.bar = parse_rotor_bar(required_table(t, "bar", "the bar shape and its dimensions"));
+  } else {
+    not_applicable.emplace_back("bars", "a smooth rotor has no bars");
+    not_applicable.emplace_back("bar", "a smooth rotor has no bars");
+  }
+  t.finish(not_applicable);
+  return r;
+}
+
+WindingSpec parse_winding(TableReader t, int slots, int poles) {
+  WindingSpec w;
+  w.layers = integer_in(t, "layers", 2, 1, 2);
+  const int full_pitch = std::max(1, static_cast<int>(std::lround(double(slots) / poles)));
+  w.coil_pitch_slots = integer_in(t, "coil_pitch_slots", full_pitch, 1, std::max(1, slots / 2));
+  w.turns_per_coil = integer_in(t, "turns_per_coil", std::nullopt, 1, 100000);
+  w.parallel_paths = integer_in(t, "parallel_paths", 1, 1, 128);
+  t.finish();
+  return w;
+}
+
+MaterialsSpec parse_materials(std::optional<TableReader> t) {
+  MaterialsSpec m{"M400-50A", "M400-50A", "copper", "aluminium", "shaft_steel"};
+  if (!t) return m;
+  const auto name = [&](const std::string& key, std::string& out) {
+    if (auto v = t->string(key)) {
+      if (v->empty()) throw t->error(key, "a material name must not be empty");
+      out = *v;
+    }
+  };
+  name("stator_iron", m.stator_iron);
+  name("rotor_iron", m.rotor_iron);
+  name("coils", m.coils);
+  name("bars", m.bars);
+  name("shaft", m.shaft);
+  t->finish();
+  return m;
+}
+
+PhaseSpec parse_phase(TableReader t, double default_rms_a, double default_angle_deg) {
+  PhaseSpec p;
+  p.rms_a = number_in(t, "rms_a", default_rms_a, 0.0, 1e6, "A");
+  p.angle_rad = number_in(t, "angle_deg", default_angle_deg, -360.0, 360.0, "degrees") * deg;
+  t.finish();
+  return p;
+}
+
+SupplySpec parse_supply(TableReader t) {
+  SupplySpec s;
+  s.feed = static_cast<Feed>(choice(t, "feed", {"current"}, std::size_t{0}));
+  s.frequency_hz = number_in(t, "frequency_hz", 50.0, 0.0, 10000.0, "Hz");
+  if (s.frequency_hz <= 0.0) throw t.error("frequency_hz", "must be greater than 0 Hz");
+  s.rms_a = number_in(t, "rms_a", std::nullopt, 0.0, 1e6, "A");
+  const char* names[3] = {"a", "b", "c"};
+  const double default_angle_deg[3] = {0.0, -120.0, -240.0};
+  auto phases = t.table("phases");
+  for (int k = 0; k < 3; ++k) {
+    s.phases[k] = {s.rms_a, default_angle_deg[k] * deg};
+    if (!phases) continue;
+    if (auto p = phases->table(names[k])) s.phases[k] = parse_phase(*p, s.rms_a, default_angle_deg[k]);
+  }
+  if (phases) phases->finish();
+  t.finish();
+  return s;
+}
+
+MeshSpec parse_mesh(std::optional<TableReader> t) {
+  MeshSpec m;
+  if (!t) return m;
+  m.order = integer_in(*t, "order", 2, 1, 2);
+  if (t->has("airgap_size_mm")) m.airgap_size_m = length_mm(*t, "airgap_size_mm", {}, "");
+  else t->know("airgap_size_mm");
+  if (t->has("iron_size_mm")) m.iron_size_m = length_mm(*t, "iron_size_mm", {}, "");
+  else t->know("iron_size_mm");
+  m.growth_rate = number_in(*t, "growth_rate", 0.2, 0.02, 2.0, "(mm per mm)");
+  m.band_nodes = t->has("band_nodes") ? integer_in(*t, "band_nodes", {}, 12, 200000) : 0;
+  if (!t->has("band_nodes")) t->know("band_nodes");
+  m.symmetry = static_cast<Symmetry>(choice(*t, "symmetry", {"auto", "full"}, std::size_t{0}));
+  t->finish();
+  return m;
+}
+
+StudySpec parse_study(std::optional<TableReader> t) {
+  StudySpec s;
+  if (!t) return s;
+  s.kind = static_cast<StudyKind>(choice(*t, "kind", {"static"}, std::size_t{0}));
+  s.rotor_angle_rad = number_in(*t, "rotor_angle_deg", 0.0, -360.0, 360.0, "degrees") * deg;
+  s.time_s = number_in(*t, "time_s", 0.0, -1e6, 1e6, "s");
+  t->finish();
+  return s;
+}
+
+OutputSpec parse_output(std::optional<TableReader> t) {
+  OutputSpec o;
+  if (!t) return o;
+  o.fields_every = integer_in(*t, "fields_every", 1, 1, 1000000);
+  o.airgap_samples = t->has("airgap_samples") ? integer_in(*t, "airgap_samples", {}, 16, 1 << 20) : 0;
+  if (!t->has("airgap_samples")) t->know("airgap_samples");
+  t->finish();
+  return o;
+}
+
+}  // namespace
+
+Case read_case_text(std::string_view text, const std::string& file_name) {
+  Case c;
+  c.file = file_name;
+  c.sources = SourceMap(file_name);
+  TableReader root = TableReader::parse_root(text, file_name, c.sources);
+  c.machine = parse_machine(required_table(root, "machine", "name, poles and stack_length_mm"));
+  c.stator = parse_stator(required_table(root, "stator", "the stator dimensions"));
+  c.rotor = parse_rotor(required_table(root, "rotor", "the rotor dimensions"));
+  c.winding = parse_winding(required_table(root, "winding", "at least turns_per_coil"),
+                            c.stator.slots, c.machine.poles);
+  c.materials = parse_materials(root.table("materials"));
+  c.supply = parse_supply(required_table(root, "supply", "at least rms_a"));
+  c.mesh = parse_mesh(root.table("mesh"));
+  c.study = parse_study(root.table("study"));
+  c.output = parse_output(root.table("output"));
+  root.finish();
+  return c;
+}
+
+Case read_case_file(const std::string& path) {
+  std::ifstream in(path, std::ios::binary);
+  if (!in) throw InputError(path, {}, "", "cannot open the case file");
+  std::stringstream buffer;
+  buffer << in.rdbuf();
+  return read_case_text(buffer.str(), path);
+}
+
+const char* to_string(SlotShape s) {
+  switch (s) {
+    case SlotShape::semi_closed: return "semi_closed";
+    case SlotShape::open: return "open";
+    case SlotShape::open_radial: return "open_radial";
+  }
+  return "?";
+}
+const char* to_string(SlotBody b) {
+  return b == SlotBody::parallel_tooth ? "parallel_tooth" : "parallel_slot";
+}
+const char* to_string(SlotBottom b) { return b == SlotBottom::round ? "round" : "flat"; }
+const char* to_string(RotorKind k) { return k == RotorKind::cage ? "cage" : "smooth"; }
+const char* to_string(BarShape s) {
+  switch (s) {
+    case BarShape::round: return "round";
+    case BarShape::teardrop: return "teardrop";
+    case BarShape::rectangular: return "rectangular";
+  }
+  return "?";
+}
+const char* to_string(BarClosure c) { return c == BarClosure::closed ? "closed" : "semi_open"; }
+const char* to_string(Symmetry s) { return s == Symmetry::automatic ? "auto" : "full"; }
+
+}  // namespace gapflux

@@ -1,0 +1,83 @@
+#include "postproc/vtu_writer.hpp"
+
+#include <vtkCellArray.h>
+#include <vtkCellData.h>
+#include <vtkFieldData.h>
+#include <vtkIntArray.h>
+#include <vtkNew.h>
+#include <vtkPoints.h>
+#include <vtkStringArray.h>
+#include <vtkUnstructuredGrid.h>
+#include <vtkXMLUnstructuredGridWriter.h>
+
+#include <stdexcept>
+
+namespace gapflux {
+
+void write_mesh_vtu(const std::string& path, const Mesh& mesh, const BandMesh* band) {
+  const int per = mesh.nodes_per_triangle();
+  const int cell_type = mesh.order == 1 ? VTK_TRIANGLE : VTK_QUADRATIC_TRIANGLE;
+  const int band_region = mesh.region_index("moving_band");
+  const double rotor_angle = band ? band->rotor_angle_rad : 0.0;
+  const Eigen::Rotation2Dd turn(rotor_angle);
+
+  vtkNew<vtkPoints> points;
+  points->SetDataTypeToDouble();
+  for (std::size_t i = 0; i < mesh.nodes.size(); ++i) {
+    const Vec2 p = mesh.node_on_rotor[i] ? Vec2(turn * mesh.nodes[i]) : mesh.nodes[i];
+    points->InsertNextPoint(p.x(), p.y(), 0.0);
+  }
+
+  vtkNew<vtkUnstructuredGrid> grid;
+  vtkNew<vtkIntArray> region_id, tooth, side;
+  region_id->SetName("region_id");
+  tooth->SetName("tooth_index");
+  side->SetName("side");
+  grid->Allocate(static_cast<vtkIdType>(mesh.n_triangles()));
+  for (std::size_t t = 0; t < mesh.n_triangles(); ++t) {
+    vtkIdType ids[6];
+    for (int i = 0; i < per; ++i) ids[i] = mesh.triangles[t * per + i];
+    grid->InsertNextCell(cell_type, per, ids);
+    const MeshRegion& region = mesh.regions[mesh.triangle_region[t]];
+    region_id->InsertNextValue(region.id);
+    tooth->InsertNextValue(mesh.tooth_index[t]);
+    side->InsertNextValue(is_rotor_side(region.tag.kind) ? 1 : 0);
+  }
+  if (band) {
+    // Band corners get points of their own, at their position for this rotor angle.
+    for (const BandElement& e : band->elements) {
+      vtkIdType ids[6];
+      for (int i = 0; i < per; ++i) {
+        const Vec2& p = e.corners[i].position_m;
+        ids[i] = points->InsertNextPoint(p.x(), p.y(), 0.0);
+      }
+      grid->InsertNextCell(cell_type, per, ids);
+      region_id->InsertNextValue(band_region >= 0 ? mesh.regions[band_region].id : 0);
+      tooth->InsertNextValue(-1);
+      side->InsertNextValue(2);
+    }
+  }
+  grid->SetPoints(points);
+  grid->GetCellData()->AddArray(region_id);
+  grid->GetCellData()->AddArray(tooth);
+  grid->GetCellData()->AddArray(side);
+
+  vtkNew<vtkIntArray> ids;
+  vtkNew<vtkStringArray> names;
+  ids->SetName("region_ids");
+  names->SetName("region_names");
+  for (const MeshRegion& r : mesh.regions) {
+    ids->InsertNextValue(r.id);
+    names->InsertNextValue(r.name);
+  }
+  grid->GetFieldData()->AddArray(ids);
+  grid->GetFieldData()->AddArray(names);
+
+  vtkNew<vtkXMLUnstructuredGridWriter> writer;
+  writer->SetFileName(path.c_str());
+  writer->SetInputData(grid);
+  writer->SetDataModeToBinary();
+  if (writer->Write() != 1) throw std::runtime_error("cannot write " + path);
+}
+
+}  // namespace gapflux
