@@ -18,8 +18,8 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
                          const MeshSettings& mesh) {
   const auto& s = c.stator.slot;
   fmt::print(out, "# resolved case: {}\n", c.file);
-  fmt::print(out, "[machine]\nname = \"{}\"\npoles = {}\nstack_length_mm = {:g}\n\n", c.machine.name,
-             c.machine.poles, c.machine.stack_length_m / mm);
+  fmt::print(out, "[machine]\nname = \"{}\"\npoles = {}\nstack_length_mm = {:g}\n\n",
+             c.machine.name, c.machine.poles, c.machine.stack_length_m / mm);
   fmt::print(out, "[stator]\nouter_diameter_mm = {:g}\nbore_diameter_mm = {:g}\nslots = {}\n\n",
              c.stator.outer_diameter_m / mm, c.stator.bore_diameter_m / mm, c.stator.slots);
   fmt::print(out, "[stator.slot]\nshape = \"{}\"\nslot_depth_mm = {:g}\n", to_string(s.shape),
@@ -29,8 +29,10 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
       fmt::print(out, "opening_width_mm = {:g}\ntip_height_mm = {:g}\nwedge_angle_deg = {:g}\n",
                  s.opening_width_m / mm, s.tip_height_m / mm, s.wedge_angle_rad * to_deg);
       fmt::print(out, "body = \"{}\"\n", to_string(s.body));
-      if (s.body == SlotBody::parallel_tooth) fmt::print(out, "tooth_width_mm = {:g}\n", s.tooth_width_m / mm);
-      else fmt::print(out, "slot_width_mm = {:g}\n", s.slot_width_m / mm);
+      if (s.body == SlotBody::parallel_tooth)
+        fmt::print(out, "tooth_width_mm = {:g}\n", s.tooth_width_m / mm);
+      else
+        fmt::print(out, "slot_width_mm = {:g}\n", s.slot_width_m / mm);
       fmt::print(out, "bottom = \"{}\"\n", to_string(s.bottom));
       break;
     case SlotShape::open:
@@ -49,7 +51,9 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
     const auto& b = r.bar;
     fmt::print(out, "bars = {}\n\n[rotor.bar]\nshape = \"{}\"\n", r.bars, to_string(b.shape));
     switch (b.shape) {
-      case BarShape::round: fmt::print(out, "diameter_mm = {:g}\n", b.diameter_m / mm); break;
+      case BarShape::round:
+        fmt::print(out, "diameter_mm = {:g}\n", b.diameter_m / mm);
+        break;
       case BarShape::teardrop:
         fmt::print(out, "top_radius_mm = {:g}\nbottom_radius_mm = {:g}\nheight_mm = {:g}\n",
                    b.top_radius_m / mm, b.bottom_radius_m / mm, b.height_m / mm);
@@ -66,18 +70,25 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
                  b.opening_height_m / mm);
   }
   const auto& w = c.winding;
-  fmt::print(out, "\n[winding]\nlayers = {}\ncoil_pitch_slots = {}\nturns_per_coil = {}\nparallel_paths = {}\n",
-             w.layers, w.coil_pitch_slots, w.turns_per_coil, w.parallel_paths);
+  fmt::print(
+      out,
+      "\n[winding]\nlayers = {}\ncoil_pitch_slots = {}\nturns_per_coil = {}\nparallel_paths = {}\n",
+      w.layers, w.coil_pitch_slots, w.turns_per_coil, w.parallel_paths);
   const auto& m = c.materials;
-  fmt::print(out, "\n[materials]\nstator_iron = \"{}\"\nrotor_iron = \"{}\"\ncoils = \"{}\"\nbars = \"{}\"\nshaft = \"{}\"\n",
+  fmt::print(out,
+             "\n[materials]\nstator_iron = \"{}\"\nrotor_iron = \"{}\"\ncoils = \"{}\"\nbars = "
+             "\"{}\"\nshaft = \"{}\"\n",
              m.stator_iron, m.rotor_iron, m.coils, m.bars, m.shaft);
   const auto& sp = c.supply;
-  fmt::print(out, "\n[supply]\nfeed = \"current\"\nfrequency_hz = {:g}\nrms_a = {:g}\n", sp.frequency_hz, sp.rms_a);
+  fmt::print(out, "\n[supply]\nfeed = \"current\"\nfrequency_hz = {:g}\nrms_a = {:g}\n",
+             sp.frequency_hz, sp.rms_a);
   const char* names[3] = {"a", "b", "c"};
   for (int k = 0; k < 3; ++k)
-    fmt::print(out, "phases.{} = {{ rms_a = {:g}, angle_deg = {:g} }}\n", names[k], sp.phases[k].rms_a,
-               sp.phases[k].angle_rad * to_deg);
-  fmt::print(out, "\n[mesh]\norder = {}\nairgap_size_mm = {:g}\niron_size_mm = {:g}\ngrowth_rate = {:g}\nband_nodes = {}\nsymmetry = \"{}\"\n",
+    fmt::print(out, "phases.{} = {{ rms_a = {:g}, angle_deg = {:g} }}\n", names[k],
+               sp.phases[k].rms_a, sp.phases[k].angle_rad * to_deg);
+  fmt::print(out,
+             "\n[mesh]\norder = {}\nairgap_size_mm = {:g}\niron_size_mm = {:g}\ngrowth_rate = "
+             "{:g}\nband_nodes = {}\nsymmetry = \"{}\"\n",
              mesh.order, mesh.airgap_size_m / mm, mesh.iron_size_m / mm, mesh.growth_rate,
              mesh.band_nodes, to_string(c.mesh.symmetry));
   fmt::print(out, "\n[study]\nkind = \"static\"\nrotor_angle_deg = {:g}\ntime_s = {:g}\n",
@@ -106,9 +117,10 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
     fmt::print(out, "rotor_yoke_height_mm = {:.4f}\n",
                (lam.bar.bar_bottom_radius_m - lam.shaft_radius_m) / mm);
   }
-  fmt::print(out, "symmetry = \"{}\"  # {} of {} sector(s), {:.4f}°, {} slot(s) and {} bar(s) each\n",
-             sym.sectors == 1 ? "full" : (sym.antiperiodic ? "antiperiodic" : "periodic"),
-             1, sym.sectors, sym.sector_angle_rad * to_deg, sym.slots_in_sector, sym.bars_in_sector);
+  fmt::print(out,
+             "symmetry = \"{}\"  # {} of {} sector(s), {:.4f}°, {} slot(s) and {} bar(s) each\n",
+             sym.sectors == 1 ? "full" : (sym.antiperiodic ? "antiperiodic" : "periodic"), 1,
+             sym.sectors, sym.sector_angle_rad * to_deg, sym.slots_in_sector, sym.bars_in_sector);
 }
 
 void print_mesh_statistics(std::ostream& out, const Mesh& mesh, const MeshQuality& q) {

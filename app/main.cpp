@@ -1,7 +1,7 @@
 // gapflux: command-line entry. Parses the command, runs it, and maps failures to exit codes:
 // 0 ok, 2 bad input (message names file, line, key), 3 numerical failure, 1 anything else.
-#include <CLI/CLI.hpp>
 #include <fmt/format.h>
+#include <CLI/CLI.hpp>
 
 #include <iostream>
 
@@ -11,8 +11,9 @@
 
 int main(int argc, char** argv) {
   using namespace gapflux;
-  CLI::App app{"gapflux: 2-D finite-element field simulation of induction-motor laminations "
-               "under disturbed supplies"};
+  CLI::App app{
+      "gapflux: 2-D finite-element field simulation of induction-motor laminations "
+      "under disturbed supplies"};
   app.require_subcommand(1);
   app.set_version_flag("--version", fmt::format("gapflux {}", version_string));
   CommonOptions options;
@@ -20,8 +21,9 @@ int main(int argc, char** argv) {
       ->check(CLI::NonNegativeNumber);
 
   std::string case_path, out_dir;
-  auto* check = app.add_subcommand("check", "validate a case; print it resolved, with derived "
-                                            "quantities");
+  auto* check = app.add_subcommand("check",
+                                   "validate a case; print it resolved, with derived "
+                                   "quantities");
   check->add_option("CASE", case_path, "case file (TOML)")->required();
   auto* mesh = app.add_subcommand("mesh", "validate and mesh a case; write DIR/mesh.vtu");
   mesh->add_option("CASE", case_path, "case file (TOML)")->required();

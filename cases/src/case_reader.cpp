@@ -25,8 +25,8 @@ double length_mm(TableReader& t, const std::string& key, std::optional<double> d
   if (!v && !default_mm) throw t.missing(key, what + " in mm (a number > 0)");
   const double value = v ? *v : *default_mm;
   if (!(value > 0.0) || value > max_length_mm)
-    throw t.error(key, fmt::format("must be a length in mm in (0, {}] (got {})", max_length_mm,
-                                   value));
+    throw t.error(key,
+                  fmt::format("must be a length in mm in (0, {}] (got {})", max_length_mm, value));
   return value * mm;
 }
 
@@ -34,8 +34,8 @@ double length_mm(TableReader& t, const std::string& key, std::optional<double> d
 double length_or_zero_mm(TableReader& t, const std::string& key, double default_mm) {
   const double value = t.number(key).value_or(default_mm);
   if (!(value >= 0.0) || value > max_length_mm)
-    throw t.error(key, fmt::format("must be a length in mm in [0, {}] (got {})", max_length_mm,
-                                   value));
+    throw t.error(key,
+                  fmt::format("must be a length in mm in [0, {}] (got {})", max_length_mm, value));
   return value * mm;
 }
 
@@ -77,7 +77,7 @@ std::size_t choice(TableReader& t, const std::string& key, const std::vector<std
 
 TableReader required_table(TableReader& parent, const std::string& key, const std::string& what) {
   if (auto t = parent.table(key)) return *t;
-  throw parent.missing(key, fmt::format("a table [{}] with {}", parent.key_path(key), what));
+  throw parent.missing(key, fmt::format("a table [{}] with {}", parent.key_path(key), what), true);
 }
 
 MachineSpec parse_machine(TableReader t) {
@@ -107,8 +107,7 @@ StatorSlotSpec parse_stator_slot(TableReader t) {
     case SlotShape::semi_closed: {
       s.opening_width_m = length_mm(t, "opening_width_mm", std::nullopt, "the slot opening width");
       s.tip_height_m = length_mm(t, "tip_height_mm", std::nullopt, "the tooth-tip height");
-      s.wedge_angle_rad =
-          number_in(t, "wedge_angle_deg", 20.0, 0.0, 75.0, "degrees") * deg;
+      s.wedge_angle_rad = number_in(t, "wedge_angle_deg", 20.0, 0.0, 75.0, "degrees") * deg;
       s.body = static_cast<SlotBody>(
           choice(t, "body", {"parallel_tooth", "parallel_slot"}, std::size_t{0}));
       if (s.body == SlotBody::parallel_tooth) {
@@ -168,8 +167,8 @@ StatorSpec parse_stator(TableReader t) {
 RotorBarSpec parse_rotor_bar(TableReader t) {
   RotorBarSpec b;
   std::vector<std::pair<std::string, std::string>> not_applicable;
-  b.shape = static_cast<BarShape>(
-      choice(t, "shape", {"round", "teardrop", "rectangular"}, std::nullopt));
+  b.shape =
+      static_cast<BarShape>(choice(t, "shape", {"round", "teardrop", "rectangular"}, std::nullopt));
   switch (b.shape) {
     case BarShape::round:
       b.diameter_m = length_mm(t, "diameter_mm", std::nullopt, "the bar diameter");
@@ -182,14 +181,15 @@ RotorBarSpec parse_rotor_bar(TableReader t) {
           length_mm(t, "bottom_radius_mm", std::nullopt, "the radius of the bar bottom");
       b.height_m = length_mm(t, "height_mm", std::nullopt, "the overall bar height");
       if (b.height_m <= 2.0 * std::max(b.top_radius_m, b.bottom_radius_m))
-        throw t.error("height_mm",
-                      fmt::format("a teardrop bar must be taller than twice its larger end "
-                                  "radius ({} mm) (got {} mm)",
-                                  2.0 * std::max(b.top_radius_m, b.bottom_radius_m) / mm,
-                                  b.height_m / mm));
+        throw t.error(
+            "height_mm",
+            fmt::format("a teardrop bar must be taller than twice its larger end "
+                        "radius ({} mm) (got {} mm)",
+                        2.0 * std::max(b.top_radius_m, b.bottom_radius_m) / mm, b.height_m / mm));
       for (const char* k : {"diameter_mm", "width_mm"})
-        not_applicable.emplace_back(k, "a teardrop bar takes top_radius_mm, bottom_radius_mm "
-                                       "and height_mm");
+        not_applicable.emplace_back(k,
+                                    "a teardrop bar takes top_radius_mm, bottom_radius_mm "
+                                    "and height_mm");
       break;
     case BarShape::rectangular:
       b.width_m = length_mm(t, "width_mm", std::nullopt, "the bar width");
@@ -198,7 +198,8 @@ RotorBarSpec parse_rotor_bar(TableReader t) {
         not_applicable.emplace_back(k, "a rectangular bar takes width_mm and height_mm");
       break;
   }
-  b.closure = static_cast<BarClosure>(choice(t, "closure", {"closed", "semi_open"}, std::size_t{0}));
+  b.closure =
+      static_cast<BarClosure>(choice(t, "closure", {"closed", "semi_open"}, std::size_t{0}));
   if (b.closure == BarClosure::closed) {
     b.bridge_thickness_m = length_mm(t, "bridge_thickness_mm", 0.5, "the bridge thickness");
     for (const char* k : {"opening_width_mm", "opening_height_mm"})
@@ -282,7 +283,8 @@ SupplySpec parse_supply(TableReader t) {
   for (int k = 0; k < 3; ++k) {
     s.phases[k] = {s.rms_a, default_angle_deg[k] * deg};
     if (!phases) continue;
-    if (auto p = phases->table(names[k])) s.phases[k] = parse_phase(*p, s.rms_a, default_angle_deg[k]);
+    if (auto p = phases->table(names[k]))
+      s.phases[k] = parse_phase(*p, s.rms_a, default_angle_deg[k]);
   }
   if (phases) phases->finish();
   t.finish();
@@ -293,10 +295,14 @@ MeshSpec parse_mesh(std::optional<TableReader> t) {
   MeshSpec m;
   if (!t) return m;
   m.order = integer_in(*t, "order", 2, 1, 2);
-  if (t->has("airgap_size_mm")) m.airgap_size_m = length_mm(*t, "airgap_size_mm", {}, "");
-  else t->know("airgap_size_mm");
-  if (t->has("iron_size_mm")) m.iron_size_m = length_mm(*t, "iron_size_mm", {}, "");
-  else t->know("iron_size_mm");
+  if (t->has("airgap_size_mm"))
+    m.airgap_size_m = length_mm(*t, "airgap_size_mm", {}, "");
+  else
+    t->know("airgap_size_mm");
+  if (t->has("iron_size_mm"))
+    m.iron_size_m = length_mm(*t, "iron_size_mm", {}, "");
+  else
+    t->know("iron_size_mm");
   m.growth_rate = number_in(*t, "growth_rate", 0.2, 0.02, 2.0, "(mm per mm)");
   m.band_nodes = t->has("band_nodes") ? integer_in(*t, "band_nodes", {}, 12, 200000) : 0;
   if (!t->has("band_nodes")) t->know("band_nodes");
@@ -319,7 +325,8 @@ OutputSpec parse_output(std::optional<TableReader> t) {
   OutputSpec o;
   if (!t) return o;
   o.fields_every = integer_in(*t, "fields_every", 1, 1, 1000000);
-  o.airgap_samples = t->has("airgap_samples") ? integer_in(*t, "airgap_samples", {}, 16, 1 << 20) : 0;
+  o.airgap_samples =
+      t->has("airgap_samples") ? integer_in(*t, "airgap_samples", {}, 16, 1 << 20) : 0;
   if (!t->has("airgap_samples")) t->know("airgap_samples");
   t->finish();
   return o;
@@ -356,26 +363,40 @@ Case read_case_file(const std::string& path) {
 
 const char* to_string(SlotShape s) {
   switch (s) {
-    case SlotShape::semi_closed: return "semi_closed";
-    case SlotShape::open: return "open";
-    case SlotShape::open_radial: return "open_radial";
+    case SlotShape::semi_closed:
+      return "semi_closed";
+    case SlotShape::open:
+      return "open";
+    case SlotShape::open_radial:
+      return "open_radial";
   }
   return "?";
 }
 const char* to_string(SlotBody b) {
   return b == SlotBody::parallel_tooth ? "parallel_tooth" : "parallel_slot";
 }
-const char* to_string(SlotBottom b) { return b == SlotBottom::round ? "round" : "flat"; }
-const char* to_string(RotorKind k) { return k == RotorKind::cage ? "cage" : "smooth"; }
+const char* to_string(SlotBottom b) {
+  return b == SlotBottom::round ? "round" : "flat";
+}
+const char* to_string(RotorKind k) {
+  return k == RotorKind::cage ? "cage" : "smooth";
+}
 const char* to_string(BarShape s) {
   switch (s) {
-    case BarShape::round: return "round";
-    case BarShape::teardrop: return "teardrop";
-    case BarShape::rectangular: return "rectangular";
+    case BarShape::round:
+      return "round";
+    case BarShape::teardrop:
+      return "teardrop";
+    case BarShape::rectangular:
+      return "rectangular";
   }
   return "?";
 }
-const char* to_string(BarClosure c) { return c == BarClosure::closed ? "closed" : "semi_open"; }
-const char* to_string(Symmetry s) { return s == Symmetry::automatic ? "auto" : "full"; }
+const char* to_string(BarClosure c) {
+  return c == BarClosure::closed ? "closed" : "semi_open";
+}
+const char* to_string(Symmetry s) {
+  return s == Symmetry::automatic ? "auto" : "full";
+}
 
 }  // namespace gapflux

@@ -7,8 +7,8 @@ namespace {
 
 std::string format_error(const std::string& file, SourcePos pos, const std::string& key_path,
                          const std::string& message) {
-  const std::string where = pos.line > 0 ? fmt::format("{}:{}:{}", file, pos.line, pos.column)
-                                         : fmt::format("{}", file);
+  const std::string where =
+      pos.line > 0 ? fmt::format("{}:{}:{}", file, pos.line, pos.column) : fmt::format("{}", file);
   if (key_path.empty()) return fmt::format("{}: error: {}", where, message);
   return fmt::format("{}: error: {}: {}", where, key_path, message);
 }

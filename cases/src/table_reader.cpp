@@ -2,8 +2,8 @@
 
 #include <fmt/format.h>
 
-#include <algorithm>
 #include <toml++/toml.h>
+#include <algorithm>
 
 namespace gapflux {
 
@@ -21,13 +21,20 @@ SourcePos to_pos(const toml::source_region& region) {
 
 const char* type_name(const toml::node& n) {
   switch (n.type()) {
-    case toml::node_type::table: return "a table";
-    case toml::node_type::array: return "an array";
-    case toml::node_type::string: return "a string";
-    case toml::node_type::integer: return "an integer";
-    case toml::node_type::floating_point: return "a number";
-    case toml::node_type::boolean: return "a boolean";
-    default: return "a date or time";
+    case toml::node_type::table:
+      return "a table";
+    case toml::node_type::array:
+      return "an array";
+    case toml::node_type::string:
+      return "a string";
+    case toml::node_type::integer:
+      return "an integer";
+    case toml::node_type::floating_point:
+      return "a number";
+    case toml::node_type::boolean:
+      return "a boolean";
+    default:
+      return "a date or time";
   }
 }
 
@@ -62,9 +69,13 @@ const void* TableReader::node(const std::string& key) const {
   return static_cast<const toml::table*>(table_)->get(key);
 }
 
-bool TableReader::has(const std::string& key) const { return node(key) != nullptr; }
+bool TableReader::has(const std::string& key) const {
+  return node(key) != nullptr;
+}
 
-SourcePos TableReader::pos() const { return pos_; }
+SourcePos TableReader::pos() const {
+  return pos_;
+}
 
 SourcePos TableReader::pos_of(const std::string& key) const {
   const auto* n = static_cast<const toml::node*>(node(key));
@@ -80,7 +91,16 @@ InputError TableReader::error(const std::string& key, const std::string& message
   return InputError(doc_->file, pos_of(key), key_path(key), message);
 }
 
-InputError TableReader::missing(const std::string& key, const std::string& what) const {
+InputError TableReader::missing(const std::string& key, const std::string& what,
+                                bool key_is_table) const {
+  // A required key that is absent is most often misspelt: point at the misspelling instead.
+  for (const auto& [k, v] : *static_cast<const toml::table*>(table_)) {
+    const std::string present(k.str());
+    if (std::find(known_.begin(), known_.end(), present) != known_.end()) continue;
+    if (v.is_table() != key_is_table) continue;  // [stator.slot] is no misspelt `slots`
+    if (nearest_of(present, {key}) == key)
+      return error(present, fmt::format("unknown key; did you mean '{}'?", key));
+  }
   const std::string table = path_.empty() ? "the top level" : fmt::format("table [{}]", path_);
   return InputError(doc_->file, pos_, key_path(key),
                     fmt::format("required key is missing from {}; give {}", table, what));

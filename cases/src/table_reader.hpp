@@ -32,7 +32,9 @@ class TableReader {
   void know(const std::string& key) { known_.push_back(key); }
 
   [[nodiscard]] InputError error(const std::string& key, const std::string& message) const;
-  [[nodiscard]] InputError missing(const std::string& key, const std::string& what) const;
+  // `key_is_table`: the missing key names a table, so only a misspelt table can stand for it.
+  [[nodiscard]] InputError missing(const std::string& key, const std::string& what,
+                                   bool key_is_table = false) const;
 
   // Every key present must have been asked for. `not_applicable` names keys the schema knows
   // but that the chosen variant does not use, with the reason.

@@ -1,10 +1,11 @@
 // The Gmsh adapter: lamination pieces → OpenCASCADE faces → conformal fragments → tagged mesh.
 // Inside Gmsh lengths are in millimetres (its tolerances suit that scale); out here, metres.
-#include <gmsh.h>
 #include <fmt/format.h>
+#include <gmsh.h>
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <map>
 #include <numbers>
 #include <numeric>
@@ -39,11 +40,13 @@ std::runtime_error gmsh_failure(const std::string& what) {
     gmsh::logger::getLastError(last);
   } catch (...) {
   }
-  return std::runtime_error(fmt::format("mesh generation failed while {}{}{}", what,
-                                        last.empty() ? "" : ": ", last));
+  return std::runtime_error(
+      fmt::format("mesh generation failed while {}{}{}", what, last.empty() ? "" : ": ", last));
 }
 
-int add_point(const Vec2& p) { return gmsh::model::occ::addPoint(p.x() * to_gmsh, p.y() * to_gmsh, 0.0); }
+int add_point(const Vec2& p) {
+  return gmsh::model::occ::addPoint(p.x() * to_gmsh, p.y() * to_gmsh, 0.0);
+}
 
 // One closed outline as an OCC curve loop; consecutive segments share their end points.
 int add_loop(const Outline& outline) {
@@ -110,22 +113,58 @@ double angular_span(const CurveSamples& s) {
   return angle_between(s.p[0], s.p[1]) + angle_between(s.p[1], s.p[2]);
 }
 
-void set_size_field(const Lamination& lam, const MeshSettings& settings) {
+// Radius of the circle through a curve's three samples; infinite for a straight curve.
+double sample_radius(const CurveSamples& s) {
+  const Vec2 a = s.p[1] - s.p[0], b = s.p[2] - s.p[0];
+  const double twice_area = std::abs(a.x() * b.y() - a.y() * b.x());
+  if (twice_area < 1e-14 * a.squaredNorm()) return std::numeric_limits<double>::infinity();
+  return a.norm() * b.norm() * (a - b).norm() / (2.0 * twice_area);
+}
+
+// Size = min over: the airgap field (gap size in the gap, growing linearly away from it), and
+// for each small arc radius r (slot bottoms, bar ends) a field of size 2πr/16 on those arcs,
+// growing at the same rate, so curved P2 edges follow them closely (the quadratic arc error is
+// ∝ φ⁵ per edge of half-angle φ) without abrupt size jumps into the iron.
+void set_size_field(const Lamination& lam, const MeshSettings& settings,
+                    const std::map<int, CurveSamples>& samples) {
   using namespace gmsh::model::mesh;
-  // Distance from the middle of the airgap, and a size growing linearly with it.
-  const int distance = field::add("MathEval");
-  field::setString(distance, "F",
-                   fmt::format("Fabs(Sqrt(x*x+y*y) - {:.12g})", lam.band_mid_radius_m() * to_gmsh));
-  const int size = field::add("Threshold");
   const double gap_mm = settings.airgap_size_m * to_gmsh;
   const double iron_mm = settings.iron_size_m * to_gmsh;
-  const double dist_min_mm = 0.5 * lam.airgap_m() * to_gmsh;
-  field::setNumber(size, "IField", distance);
-  field::setNumber(size, "LcMin", gap_mm);
-  field::setNumber(size, "LcMax", iron_mm);
-  field::setNumber(size, "DistMin", dist_min_mm);
-  field::setNumber(size, "DistMax", dist_min_mm + std::max(0.0, iron_mm - gap_mm) / settings.growth_rate);
-  field::setAsBackgroundMesh(size);
+  const auto threshold = [&](int distance_field, double size_min_mm, double dist_min_mm) {
+    const int f = field::add("Threshold");
+    field::setNumber(f, "IField", distance_field);
+    field::setNumber(f, "LcMin", size_min_mm);
+    field::setNumber(f, "LcMax", iron_mm);
+    field::setNumber(f, "DistMin", dist_min_mm);
+    field::setNumber(f, "DistMax",
+                     dist_min_mm + std::max(0.0, iron_mm - size_min_mm) / settings.growth_rate);
+    return f;
+  };
+  std::vector<double> fields;
+  const int gap_distance = field::add("MathEval");
+  field::setString(gap_distance, "F",
+                   fmt::format("Fabs(Sqrt(x*x+y*y) - {:.12g})", lam.band_mid_radius_m() * to_gmsh));
+  fields.push_back(threshold(gap_distance, gap_mm, 0.5 * lam.airgap_m() * to_gmsh));
+
+  constexpr double elements_per_turn = 16.0;
+  std::map<long, std::vector<double>> arcs_by_radius;  // radius in µm → curves
+  for (const auto& [tag, s] : samples) {
+    const double r = sample_radius(s);
+    if (!std::isfinite(r)) continue;
+    const double size = two_pi * r * to_gmsh / elements_per_turn;
+    if (size >= iron_mm) continue;
+    arcs_by_radius[std::lround(r * 1e6)].push_back(tag);
+  }
+  for (const auto& [radius_um, tags] : arcs_by_radius) {
+    const int distance = field::add("Distance");
+    field::setNumbers(distance, "CurvesList", tags);
+    field::setNumber(distance, "NumPointsPerCurve", 40);
+    const double size = std::max(gap_mm, two_pi * radius_um * 1e-3 / elements_per_turn);
+    fields.push_back(threshold(distance, size, 0.0));
+  }
+  const int combined = field::add("Min");
+  field::setNumbers(combined, "FieldsList", fields);
+  field::setAsBackgroundMesh(combined);
   gmsh::option::setNumber("Mesh.MeshSizeFromPoints", 0);
   gmsh::option::setNumber("Mesh.MeshSizeFromCurvature", 0);
   gmsh::option::setNumber("Mesh.MeshSizeExtendFromBoundary", 0);
@@ -161,20 +200,23 @@ MeshSettings resolve_mesh_settings(const Case& c, const Lamination& lam) {
   s.order = c.mesh.order;
   s.growth_rate = c.mesh.growth_rate;
   s.airgap_size_m = c.mesh.airgap_size_m > 0.0 ? c.mesh.airgap_size_m : 0.5 * lam.airgap_m();
-  s.iron_size_m = c.mesh.iron_size_m > 0.0 ? c.mesh.iron_size_m : lam.slot.slot_pitch_at_bore_m / 3.0;
+  s.iron_size_m =
+      c.mesh.iron_size_m > 0.0 ? c.mesh.iron_size_m : lam.slot.slot_pitch_at_bore_m / 3.0;
   s.iron_size_m = std::max(s.iron_size_m, s.airgap_size_m);
   // The band circles carry the same uniform nodes; each sector edge of each circle is split
   // into arcs of at most a quarter turn, each of which must hold a whole number of intervals.
-  const int arcs = std::max(1, static_cast<int>(std::ceil(lam.symmetry.sector_angle_rad / (std::numbers::pi / 2) - 1e-9)));
+  const int arcs = std::max(
+      1,
+      static_cast<int>(std::ceil(lam.symmetry.sector_angle_rad / (std::numbers::pi / 2) - 1e-9)));
   const int multiple = lam.symmetry.sectors * arcs;
   if (c.mesh.band_nodes > 0) {
     if (c.mesh.band_nodes % multiple != 0)
-      throw c.sources.error("mesh.band_nodes",
-                            fmt::format("must be a multiple of {} for this model ({} sector(s) of "
-                                        "{} arc(s) each); {} or {} would do",
-                                        multiple, lam.symmetry.sectors, arcs,
-                                        c.mesh.band_nodes / multiple * multiple,
-                                        (c.mesh.band_nodes / multiple + 1) * multiple));
+      throw c.sources.error(
+          "mesh.band_nodes",
+          fmt::format("must be a multiple of {} for this model ({} sector(s) of "
+                      "{} arc(s) each); {} or {} would do",
+                      multiple, lam.symmetry.sectors, arcs, c.mesh.band_nodes / multiple * multiple,
+                      (c.mesh.band_nodes / multiple + 1) * multiple));
     s.band_nodes = c.mesh.band_nodes;
   } else {
     const double circumference = two_pi * lam.band_mid_radius_m();
@@ -204,12 +246,17 @@ Mesh mesh_lamination(const Lamination& lam, const MeshSettings& settings) {
   for (const auto& [dim, tag] : curves) {
     const CurveSamples s = sample_curve(tag);
     samples[tag] = s;
-    if (on_circle(s, lam.band_outer_radius_m)) stator_band.push_back(tag);
-    else if (on_circle(s, lam.band_inner_radius_m)) rotor_band.push_back(tag);
-    else if (on_circle(s, lam.stator_outer_radius_m)) outer.push_back(tag);
+    if (on_circle(s, lam.band_outer_radius_m))
+      stator_band.push_back(tag);
+    else if (on_circle(s, lam.band_inner_radius_m))
+      rotor_band.push_back(tag);
+    else if (on_circle(s, lam.stator_outer_radius_m))
+      outer.push_back(tag);
     if (sym.sectors > 1) {
-      if (on_ray(s, 0.0, scale)) master.push_back(tag);
-      else if (on_ray(s, sym.sector_angle_rad, scale)) slave.push_back(tag);
+      if (on_ray(s, 0.0, scale))
+        master.push_back(tag);
+      else if (on_ray(s, sym.sector_angle_rad, scale))
+        slave.push_back(tag);
     }
   }
   for (int tag : stator_band) {
@@ -221,9 +268,10 @@ Mesh mesh_lamination(const Lamination& lam, const MeshSettings& settings) {
     gmsh::model::mesh::setTransfiniteCurve(tag, intervals + 1);
   }
   if (master.size() != slave.size())
-    throw std::runtime_error(fmt::format("sector edges do not match: {} curves on θ = 0, {} on "
-                                         "θ = {:.6f} rad",
-                                         master.size(), slave.size(), sym.sector_angle_rad));
+    throw std::runtime_error(
+        fmt::format("sector edges do not match: {} curves on θ = 0, {} on "
+                    "θ = {:.6f} rad",
+                    master.size(), slave.size(), sym.sector_angle_rad));
   const double c = std::cos(sym.sector_angle_rad), s = std::sin(sym.sector_angle_rad);
   const std::vector<double> rotation = {c, -s, 0, 0, s, c, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1};
   for (int tag : slave) {
@@ -245,7 +293,7 @@ Mesh mesh_lamination(const Lamination& lam, const MeshSettings& settings) {
   }
 
   try {
-    set_size_field(lam, settings);
+    set_size_field(lam, settings, samples);
     gmsh::model::mesh::generate(2);
     if (settings.order == 2) {
       gmsh::option::setNumber("Mesh.SecondOrderLinear", 0);
@@ -273,7 +321,8 @@ Mesh mesh_lamination(const Lamination& lam, const MeshSettings& settings) {
   // Regions in the order the lamination lists its pieces; the band is added last.
   std::map<std::pair<int, std::pair<int, int>>, int> region_of_tag;
   const auto region_for = [&](const RegionTag& tag) {
-    const auto key = std::make_pair(static_cast<int>(tag.kind), std::make_pair(tag.index, tag.layer));
+    const auto key =
+        std::make_pair(static_cast<int>(tag.kind), std::make_pair(tag.index, tag.layer));
     auto it = region_of_tag.find(key);
     if (it != region_of_tag.end()) return it->second;
     const int index = static_cast<int>(mesh.regions.size());
@@ -324,11 +373,13 @@ Mesh mesh_lamination(const Lamination& lam, const MeshSettings& settings) {
   region_for({RegionKind::moving_band});
   const MeshRegion& band_region = mesh.regions.back();
   mesh.regions.back().exact_area_m2 =
-      0.5 * sym.sector_angle_rad * (std::pow(lam.band_outer_radius_m, 2) - std::pow(lam.band_inner_radius_m, 2));
+      0.5 * sym.sector_angle_rad *
+      (std::pow(lam.band_outer_radius_m, 2) - std::pow(lam.band_inner_radius_m, 2));
   (void)band_region;
 
   // Band rings: vertices at multiples of the pitch, mid-edge nodes halfway.
-  const auto collect_ring = [&](const std::vector<int>& ring_curves, double radius, BandRing& ring) {
+  const auto collect_ring = [&](const std::vector<int>& ring_curves, double radius,
+                                BandRing& ring) {
     ring.radius_m = radius;
     ring.pitch_rad = band_pitch;
     std::map<long, int> vertices, midpoints;
@@ -374,16 +425,18 @@ Mesh mesh_lamination(const Lamination& lam, const MeshSettings& settings) {
         mesh.origin_node = static_cast<int>(i);
         continue;
       }
-      if (std::abs(p.y()) < tol && p.x() > 0.0) on_first.emplace_back(p.norm(), static_cast<int>(i));
+      if (std::abs(p.y()) < tol && p.x() > 0.0)
+        on_first.emplace_back(p.norm(), static_cast<int>(i));
       else if (std::abs(dir1.x() * p.y() - dir1.y() * p.x()) < tol && p.dot(dir1) > 0.0)
         on_second.emplace_back(p.norm(), static_cast<int>(i));
     }
     std::sort(on_first.begin(), on_first.end());
     std::sort(on_second.begin(), on_second.end());
     if (on_first.size() != on_second.size())
-      throw std::runtime_error(fmt::format("sector edges carry {} and {} nodes; the mesh is not "
-                                           "periodic",
-                                           on_first.size(), on_second.size()));
+      throw std::runtime_error(
+          fmt::format("sector edges carry {} and {} nodes; the mesh is not "
+                      "periodic",
+                      on_first.size(), on_second.size()));
     for (std::size_t i = 0; i < on_first.size(); ++i) {
       if (std::abs(on_first[i].first - on_second[i].first) > tol)
         throw std::runtime_error("sector-edge nodes do not pair up at equal radii");

@@ -58,23 +58,35 @@ bool is_rotor_side(RegionKind kind) {
     case RegionKind::rotor_iron:
     case RegionKind::bar:
     case RegionKind::bar_opening:
-    case RegionKind::shaft: return true;
-    default: return false;
+    case RegionKind::shaft:
+      return true;
+    default:
+      return false;
   }
 }
 
 const char* to_string(RegionKind kind) {
   switch (kind) {
-    case RegionKind::stator_iron: return "stator_iron";
-    case RegionKind::coil_side: return "coil_side";
-    case RegionKind::slot_opening: return "slot_opening";
-    case RegionKind::airgap_stator: return "airgap_stator_side";
-    case RegionKind::moving_band: return "moving_band";
-    case RegionKind::airgap_rotor: return "airgap_rotor_side";
-    case RegionKind::rotor_iron: return "rotor_iron";
-    case RegionKind::bar: return "bar";
-    case RegionKind::bar_opening: return "bar_opening";
-    case RegionKind::shaft: return "shaft";
+    case RegionKind::stator_iron:
+      return "stator_iron";
+    case RegionKind::coil_side:
+      return "coil_side";
+    case RegionKind::slot_opening:
+      return "slot_opening";
+    case RegionKind::airgap_stator:
+      return "airgap_stator_side";
+    case RegionKind::moving_band:
+      return "moving_band";
+    case RegionKind::airgap_rotor:
+      return "airgap_rotor_side";
+    case RegionKind::rotor_iron:
+      return "rotor_iron";
+    case RegionKind::bar:
+      return "bar";
+    case RegionKind::bar_opening:
+      return "bar_opening";
+    case RegionKind::shaft:
+      return "shaft";
   }
   return "?";
 }
@@ -84,10 +96,14 @@ std::string region_name(const RegionTag& tag) {
     case RegionKind::coil_side:
       if (tag.layer < 0) return fmt::format("coil_s{:02d}", tag.index + 1);
       return fmt::format("coil_s{:02d}_{}", tag.index + 1, tag.layer == 0 ? "top" : "bottom");
-    case RegionKind::slot_opening: return fmt::format("slot_opening_s{:02d}", tag.index + 1);
-    case RegionKind::bar: return fmt::format("bar_r{:02d}", tag.index + 1);
-    case RegionKind::bar_opening: return fmt::format("bar_opening_r{:02d}", tag.index + 1);
-    default: return to_string(tag.kind);
+    case RegionKind::slot_opening:
+      return fmt::format("slot_opening_s{:02d}", tag.index + 1);
+    case RegionKind::bar:
+      return fmt::format("bar_r{:02d}", tag.index + 1);
+    case RegionKind::bar_opening:
+      return fmt::format("bar_opening_r{:02d}", tag.index + 1);
+    default:
+      return to_string(tag.kind);
   }
 }
 
@@ -110,41 +126,42 @@ Lamination build_lamination(const Case& c) {
                                 "({:.3f} mm)",
                                 c.rotor.outer_diameter_m / mm, c.stator.bore_diameter_m / mm));
   if (gap < 0.01 * mm)
-    throw src.error("rotor.outer_diameter_mm",
-                    fmt::format("the airgap ({:.4f} mm) is below 0.01 mm; no motor is built so",
-                                gap / mm));
+    throw src.error(
+        "rotor.outer_diameter_mm",
+        fmt::format("the airgap ({:.4f} mm) is below 0.01 mm; no motor is built so", gap / mm));
   // The gap in thirds: stator-side air, the moving band, rotor-side air.
   lam.band_inner_radius_m = lam.rotor_outer_radius_m + gap / 3.0;
   lam.band_outer_radius_m = lam.rotor_outer_radius_m + 2.0 * gap / 3.0;
 
-  lam.symmetry = choose_symmetry(lam.slots, lam.bars, lam.poles,
-                                 c.mesh.symmetry == Symmetry::full);
+  lam.symmetry = choose_symmetry(lam.slots, lam.bars, lam.poles, c.mesh.symmetry == Symmetry::full);
   const SectorSymmetry& sym = lam.symmetry;
 
   // Stator: iron ring, then each slot of the sector rotated into place.
   const SlotShapes slot = build_stator_slot(c);
   lam.slot = slot.dims;
-  lam.pieces.push_back(ring_piece({RegionKind::stator_iron}, lam.bore_radius_m,
-                                  lam.stator_outer_radius_m, sym));
+  lam.pieces.push_back(
+      ring_piece({RegionKind::stator_iron}, lam.bore_radius_m, lam.stator_outer_radius_m, sym));
   for (int k = 0; k < sym.slots_in_sector; ++k) {
     const double angle = (k + 0.5) * two_pi / lam.slots;
     if (!slot.opening.empty())
-      lam.pieces.push_back({{RegionKind::slot_opening, k}, inner_priority,
-                            rotated(slot.opening, angle), {}});
+      lam.pieces.push_back(
+          {{RegionKind::slot_opening, k}, inner_priority, rotated(slot.opening, angle), {}});
     for (std::size_t layer = 0; layer < slot.coil_sides.size(); ++layer) {
       const int layer_id = slot.coil_sides.size() == 1 ? -1 : static_cast<int>(layer);
-      lam.pieces.push_back({{RegionKind::coil_side, k, layer_id}, inner_priority,
-                            rotated(slot.coil_sides[layer], angle), {}});
+      lam.pieces.push_back({{RegionKind::coil_side, k, layer_id},
+                            inner_priority,
+                            rotated(slot.coil_sides[layer], angle),
+                            {}});
     }
   }
-  lam.pieces.push_back(ring_piece({RegionKind::airgap_stator}, lam.band_outer_radius_m,
-                                  lam.bore_radius_m, sym));
+  lam.pieces.push_back(
+      ring_piece({RegionKind::airgap_stator}, lam.band_outer_radius_m, lam.bore_radius_m, sym));
 
   // Rotor, in its own frame.
   lam.pieces.push_back(ring_piece({RegionKind::airgap_rotor}, lam.rotor_outer_radius_m,
                                   lam.band_inner_radius_m, sym));
-  lam.pieces.push_back(ring_piece({RegionKind::rotor_iron}, lam.shaft_radius_m,
-                                  lam.rotor_outer_radius_m, sym));
+  lam.pieces.push_back(
+      ring_piece({RegionKind::rotor_iron}, lam.shaft_radius_m, lam.rotor_outer_radius_m, sym));
   if (lam.bars > 0) {
     const BarShapes bar = build_rotor_bar(c);
     lam.bar = bar.dims;
@@ -152,8 +169,8 @@ Lamination build_lamination(const Case& c) {
       const double angle = (j + 0.5) * two_pi / lam.bars;
       lam.pieces.push_back({{RegionKind::bar, j}, inner_priority, rotated(bar.bar, angle), {}});
       if (!bar.opening.empty())
-        lam.pieces.push_back({{RegionKind::bar_opening, j}, inner_priority,
-                              rotated(bar.opening, angle), {}});
+        lam.pieces.push_back(
+            {{RegionKind::bar_opening, j}, inner_priority, rotated(bar.opening, angle), {}});
     }
   }
   if (lam.shaft_radius_m > 0.0)

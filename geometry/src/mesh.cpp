@@ -61,10 +61,12 @@ MeshQuality mesh_quality(const Mesh& mesh) {
     const Vec2& c = mesh.nodes[tri[2]];
     const double la = (b - c).norm(), lb = (c - a).norm(), lc = (a - b).norm();
     const double cross = std::abs((b - a).x() * (c - a).y() - (b - a).y() * (c - a).x());
-    const double angles[3] = {std::acos(std::clamp((lb * lb + lc * lc - la * la) / (2 * lb * lc), -1.0, 1.0)),
-                              std::acos(std::clamp((la * la + lc * lc - lb * lb) / (2 * la * lc), -1.0, 1.0)),
-                              std::acos(std::clamp((la * la + lb * lb - lc * lc) / (2 * la * lb), -1.0, 1.0))};
-    for (double angle : angles) q.min_angle_deg = std::min(q.min_angle_deg, angle * 180.0 / std::numbers::pi);
+    const double angles[3] = {
+        std::acos(std::clamp((lb * lb + lc * lc - la * la) / (2 * lb * lc), -1.0, 1.0)),
+        std::acos(std::clamp((la * la + lc * lc - lb * lb) / (2 * la * lc), -1.0, 1.0)),
+        std::acos(std::clamp((la * la + lb * lb - lc * lc) / (2 * la * lb), -1.0, 1.0))};
+    for (double angle : angles)
+      q.min_angle_deg = std::min(q.min_angle_deg, angle * 180.0 / std::numbers::pi);
     const double area = 0.5 * cross;
     const double s = 0.5 * (la + lb + lc);
     const double inradius = area / s;

@@ -9,7 +9,9 @@ namespace {
 class RotorRing {
  public:
   RotorRing(const Mesh& mesh, double angle)
-      : mesh_(mesh), ring_(mesh.rotor_ring), rotation_(angle),
+      : mesh_(mesh),
+        ring_(mesh.rotor_ring),
+        rotation_(angle),
         sector_(mesh.symmetry.sectors > 1),
         n_(static_cast<int>(sector_ ? ring_.vertices.size() - 1 : ring_.vertices.size())),
         flip_(mesh.symmetry.antiperiodic ? -1.0 : 1.0) {}
@@ -90,19 +92,20 @@ BandMesh build_moving_band(const Mesh& mesh, double rotor_angle_rad) {
     const BandNodeRef s0 = stator_vertex(i), s1 = stator_vertex(i + 1);
     const BandNodeRef r0 = rotor.vertex(j), r1 = rotor.vertex(j + 1);
     BandElement lower, upper;
-    // (r0, s1, s0) and (r0, r1, s1), both counter-clockwise.
-    lower.corners = {r0, s1, s0};
-    upper.corners = {r0, r1, s1};
+    // (r0, s0, s1) and (r0, s1, r1): counter-clockwise, since the rings run counter-clockwise
+    // and the stator ring lies outside the rotor ring.
+    lower.corners = {r0, s0, s1};
+    upper.corners = {r0, s1, r1};
     if (mesh.order == 2) {
       const BandNodeRef diagonal = extra(2 * i + 1, r0, s1);
       const BandNodeRef side_here = extra(2 * i, s0, r0);
       const BandNodeRef side_next = extra(2 * (i + 1), s1, r1);
-      lower.corners[3] = diagonal;
+      lower.corners[3] = side_here;
       lower.corners[4] = stator_node(mesh, stator.midpoints[i]);
-      lower.corners[5] = side_here;
-      upper.corners[3] = rotor.midpoint(j);
+      lower.corners[5] = diagonal;
+      upper.corners[3] = diagonal;
       upper.corners[4] = side_next;
-      upper.corners[5] = diagonal;
+      upper.corners[5] = rotor.midpoint(j);
     }
     band.elements.push_back(lower);
     band.elements.push_back(upper);

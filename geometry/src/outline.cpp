@@ -53,7 +53,8 @@ namespace {
 // Arc pieces of at most π/2 from theta0 to theta1 (either direction) at radius r about the origin.
 void append_arc(Outline& out, double r, double theta0, double theta1) {
   const double span = theta1 - theta0;
-  const int pieces = std::max(1, static_cast<int>(std::ceil(std::abs(span) / (std::numbers::pi / 2) - 1e-9)));
+  const int pieces =
+      std::max(1, static_cast<int>(std::ceil(std::abs(span) / (std::numbers::pi / 2) - 1e-9)));
   for (int i = 0; i < pieces; ++i) {
     const double a = theta0 + span * i / pieces;
     const double b = theta0 + span * (i + 1) / pieces;

@@ -50,7 +50,7 @@ BarShapes build_rotor_bar(const Case& c) {
   const std::string key = "rotor.bar.";
   const double r_rotor = 0.5 * r.outer_diameter_m;
   const double x_top = b.closure == BarClosure::closed ? r_rotor - b.bridge_thickness_m
-                                                        : r_rotor - b.opening_height_m;
+                                                       : r_rotor - b.opening_height_m;
   const std::string top_key =
       key + (b.closure == BarClosure::closed ? "bridge_thickness_mm" : "opening_height_mm");
   const double w_o = b.closure == BarClosure::semi_open ? b.opening_width_m : 0.0;
@@ -71,8 +71,8 @@ BarShapes build_rotor_bar(const Case& c) {
       if (w_o > 0.0 && w_o < top_width) {
         const double phi = std::asin(half_o / radius);
         add_circle_arcs(out.bar, center, radius, {phi, pi / 2, pi, 1.5 * pi, 2 * pi - phi});
-        slit_bottom = Segment::arc(center + polar(radius, 2 * pi - phi),
-                                   center + polar(radius, phi), center);
+        slit_bottom =
+            Segment::arc(center + polar(radius, 2 * pi - phi), center + polar(radius, phi), center);
         out.bar.push_back(slit_bottom);
       } else {
         add_circle_arcs(out.bar, center, radius, {0, pi / 2, pi, 1.5 * pi, 2 * pi});
@@ -101,8 +101,8 @@ BarShapes build_rotor_bar(const Case& c) {
       // Bottom circle from the upper tangent point round through −x to the lower one.
       out.bar.push_back(Segment::line(c2 + polar(r2, -a), c1 + polar(r1, -a)));
       for (std::size_t i = 0; i + 1 < top_angles.size(); ++i) {
-        const Segment arc = Segment::arc(c1 + polar(r1, top_angles[i]),
-                                         c1 + polar(r1, top_angles[i + 1]), c1);
+        const Segment arc =
+            Segment::arc(c1 + polar(r1, top_angles[i]), c1 + polar(r1, top_angles[i + 1]), c1);
         out.bar.push_back(arc);
         if (top_angles.size() == 4 && i == 1) slit_bottom = arc;
       }

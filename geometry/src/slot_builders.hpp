@@ -11,7 +11,7 @@
 namespace gapflux {
 
 struct SlotShapes {
-  Outline opening;                 // empty when the winding reaches the bore
+  Outline opening;                  // empty when the winding reaches the bore
   std::vector<Outline> coil_sides;  // one per layer, top (airgap side) first
   SlotDimensions dims;
 };

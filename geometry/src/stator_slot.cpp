@@ -93,9 +93,10 @@ SlotShapes build_walled_slot(const Case& c) {
                                 w_o / mm, 2.0 * y_w / mm));
 
   // Tooth width.
-  const double tooth_min = s.body == SlotBody::parallel_tooth
-                               ? s.tooth_width_m
-                               : 2.0 * (x_w * std::sin(alpha) - 0.5 * s.slot_width_m * std::cos(alpha));
+  const double tooth_min =
+      s.body == SlotBody::parallel_tooth
+          ? s.tooth_width_m
+          : 2.0 * (x_w * std::sin(alpha) - 0.5 * s.slot_width_m * std::cos(alpha));
   if (tooth_min <= 0.0)
     throw src.error(key + "slot_width_mm",
                     fmt::format("the teeth would have no width ({:.3f} mm) at the top of the slot "
@@ -130,10 +131,11 @@ SlotShapes build_walled_slot(const Case& c) {
                                 s.slot_depth_m / mm, (x_w - r_bore) / mm));
   const double outermost = s.bottom == SlotBottom::flat ? std::hypot(x_max, walls.y_e) : x_max;
   if (outermost >= r_outer)
-    throw src.error(key + "slot_depth_mm",
-                    fmt::format("the slot ({:.3f} mm deep) reaches through the yoke: it must end "
-                                "inside the outer diameter (depth < {:.3f} mm here)",
-                                s.slot_depth_m / mm, (s.slot_depth_m - (outermost - r_outer)) / mm));
+    throw src.error(
+        key + "slot_depth_mm",
+        fmt::format("the slot ({:.3f} mm deep) reaches through the yoke: it must end "
+                    "inside the outer diameter (depth < {:.3f} mm here)",
+                    s.slot_depth_m / mm, (s.slot_depth_m - (outermost - r_outer)) / mm));
 
   SlotShapes out;
   // Opening: from the bore up to the top of the winding area.
@@ -219,11 +221,11 @@ SlotShapes build_radial_slot(const Case& c) {
   const double pitch = 2.0 * std::numbers::pi / st.slots;
   const double half = 0.5 * s.slot_angle_rad;
   if (s.slot_angle_rad >= pitch)
-    throw c.sources.error("stator.slot.slot_angle_deg",
-                          fmt::format("the slot ({:.3f}°) must be narrower than the slot pitch "
-                                      "({:.3f}°)",
-                                      s.slot_angle_rad * 180 / std::numbers::pi,
-                                      pitch * 180 / std::numbers::pi));
+    throw c.sources.error(
+        "stator.slot.slot_angle_deg",
+        fmt::format("the slot ({:.3f}°) must be narrower than the slot pitch "
+                    "({:.3f}°)",
+                    s.slot_angle_rad * 180 / std::numbers::pi, pitch * 180 / std::numbers::pi));
   const double r_bottom = r_bore + s.slot_depth_m;
   if (r_bottom >= r_outer)
     throw c.sources.error("stator.slot.slot_depth_mm",

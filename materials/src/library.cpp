@@ -47,15 +47,19 @@ void check_one(const Case& c, const std::string& key, const std::string& name,
                                       name, what, names_of(accept)));
   if (!accept(m->kind))
     throw c.sources.error("materials." + key,
-                          fmt::format("\"{}\" cannot be used for {}; choose one of: {}", name,
-                                      what, names_of(accept)));
+                          fmt::format("\"{}\" cannot be used for {}; choose one of: {}", name, what,
+                                      names_of(accept)));
 }
 
 bool is_steel(MaterialClass k) {
   return k == MaterialClass::electrical_steel || k == MaterialClass::structural_steel;
 }
-bool is_conductor(MaterialClass k) { return k == MaterialClass::conductor; }
-bool is_shaft(MaterialClass k) { return k == MaterialClass::air || is_steel(k); }
+bool is_conductor(MaterialClass k) {
+  return k == MaterialClass::conductor;
+}
+bool is_shaft(MaterialClass k) {
+  return k == MaterialClass::air || is_steel(k);
+}
 
 }  // namespace
 

@@ -6,7 +6,7 @@
 #include <vtkIntArray.h>
 #include <vtkNew.h>
 #include <vtkPoints.h>
-#include <vtkStringArray.h>
+#include <vtkUnsignedCharArray.h>
 #include <vtkUnstructuredGrid.h>
 #include <vtkXMLUnstructuredGridWriter.h>
 
@@ -63,12 +63,15 @@ void write_mesh_vtu(const std::string& path, const Mesh& mesh, const BandMesh* b
   grid->GetCellData()->AddArray(side);
 
   vtkNew<vtkIntArray> ids;
-  vtkNew<vtkStringArray> names;
+  // Names as NUL-terminated UTF-8 bytes in region_ids order: plain numeric arrays that every
+  // VTU reader understands (string arrays are not).
+  vtkNew<vtkUnsignedCharArray> names;
   ids->SetName("region_ids");
   names->SetName("region_names");
   for (const MeshRegion& r : mesh.regions) {
     ids->InsertNextValue(r.id);
-    names->InsertNextValue(r.name);
+    for (char ch : r.name) names->InsertNextValue(static_cast<unsigned char>(ch));
+    names->InsertNextValue(0);
   }
   grid->GetFieldData()->AddArray(ids);
   grid->GetFieldData()->AddArray(names);

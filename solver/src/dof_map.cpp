@@ -9,7 +9,8 @@ DofMap build_dof_map(const Mesh& mesh) {
   map.dof_of_node.assign(n, free);
   map.sign_of_node.assign(n, 1.0);
   for (int node : mesh.outer_nodes) map.dof_of_node[node] = fixed;
-  if (mesh.origin_node >= 0 && mesh.symmetry.antiperiodic) map.dof_of_node[mesh.origin_node] = fixed;
+  if (mesh.origin_node >= 0 && mesh.symmetry.antiperiodic)
+    map.dof_of_node[mesh.origin_node] = fixed;
 
   // Slaves point at their master; numbered after all masters are known.
   std::vector<int> master_of(n, -1);

@@ -98,7 +98,7 @@ struct PhaseSpec {
 struct SupplySpec {
   Feed feed = Feed::current;
   double frequency_hz = 50.0;
-  double rms_a = 0.0;  // balanced RMS phase current
+  double rms_a = 0.0;   // balanced RMS phase current
   PhaseSpec phases[3];  // a, b, c after defaults: rms_a and 0, −120°, −240°
 };
 

@@ -61,8 +61,8 @@ struct SlotDimensions {
   double slot_area_m2 = 0.0;          // opening + winding area of one slot
   double winding_area_m2 = 0.0;       // area available to conductors in one slot
   double coil_side_area_m2[2] = {0.0, 0.0};
-  double yoke_height_m = 0.0;         // at the deepest point of a slot
-  double tip_depth_m = 0.0;           // bore to the top of the winding area (tooth-tip zone)
+  double yoke_height_m = 0.0;  // at the deepest point of a slot
+  double tip_depth_m = 0.0;    // bore to the top of the winding area (tooth-tip zone)
 };
 
 struct BarDimensions {

@@ -23,9 +23,9 @@ struct MeshRegion {
 // Sector model: n + 1 vertices, the last the periodic image of the first; full model: n.
 struct BandRing {
   double radius_m = 0.0;
-  double pitch_rad = 0.0;        // angle between neighbouring vertices
+  double pitch_rad = 0.0;  // angle between neighbouring vertices
   std::vector<int> vertices;
-  std::vector<int> midpoints;    // order 2: node midway between vertices i and i + 1
+  std::vector<int> midpoints;  // order 2: node midway between vertices i and i + 1
 };
 
 struct Mesh {

@@ -39,6 +39,8 @@ Outline annular_sector(double r_inner, double r_outer, double theta0, double the
 // A full circle as four quarter arcs, counter-clockwise, starting at angle 0.
 Outline circle(const Vec2& center, double radius);
 // Point at polar coordinates.
-inline Vec2 polar(double r, double theta) { return {r * std::cos(theta), r * std::sin(theta)}; }
+inline Vec2 polar(double r, double theta) {
+  return {r * std::cos(theta), r * std::sin(theta)};
+}
 
 }  // namespace gapflux

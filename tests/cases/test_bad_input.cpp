@@ -1,0 +1,165 @@
+// The bad-input catalogue: each mutation of a valid demo case must end `gapflux check` with exit
+// code 2 and one message that names the file, the line and column, the key path, and what would
+// be valid.
+#include <catch2/catch.hpp>
+#include <fmt/format.h>
+
+#include <regex>
+
+#include "test_support.hpp"
+
+using namespace gapflux;
+
+namespace {
+
+struct BadCase {
+  const char* name;
+  const char* base;     // example file the mutation starts from
+  const char* find;     // text replaced ("" = append `replace` at the end)
+  const char* replace;
+  const char* key;      // key path the message must name
+  const char* expect;   // fragment the message must contain (what was wrong / what is valid)
+  const char* at_line;  // text on the line the message must point at ("" = do not check)
+};
+
+const BadCase catalogue[] = {
+    {"unknown key, with a suggestion", "pump_4p36s.toml", "tooth_width_mm = 5.6",
+     "tooth_widht_mm = 5.6", "stator.slot.tooth_widht_mm", "did you mean 'tooth_width_mm'",
+     "tooth_widht_mm"},
+    {"unknown table", "pump_4p36s.toml", "[supply]", "[suply]", "suply", "did you mean 'supply'",
+     "[suply]"},
+    {"missing required key", "pump_4p36s.toml", "slots = 36\n", "", "stator.slots",
+     "required key is missing", "[stator]"},
+    {"missing required table", "compressor_2p24s.toml", "[supply]\nfrequency_hz = 50.0\nrms_a = 8.0\n",
+     "", "supply", "required key is missing", ""},
+    {"string for an integer", "pump_4p36s.toml", "poles = 4", "poles = \"four\"", "machine.poles",
+     "expected an integer", "poles ="},
+    {"float for an integer", "pump_4p36s.toml", "poles = 4", "poles = 4.0", "machine.poles",
+     "expected an integer", "poles ="},
+    {"odd pole count", "pump_4p36s.toml", "poles = 4", "poles = 5", "machine.poles", "must be even",
+     "poles ="},
+    {"negative length", "pump_4p36s.toml", "stack_length_mm = 150.0", "stack_length_mm = -150.0",
+     "machine.stack_length_mm", "must be a length in mm in (0", "stack_length_mm"},
+    {"zero tooth width", "pump_4p36s.toml", "tooth_width_mm = 5.6", "tooth_width_mm = 0.0",
+     "stator.slot.tooth_width_mm", "must be a length in mm in (0", "tooth_width_mm"},
+    {"bore not inside the outer diameter", "pump_4p36s.toml", "bore_diameter_mm = 136.0",
+     "bore_diameter_mm = 220.0", "stator.bore_diameter_mm", "must be smaller than the outer",
+     "bore_diameter_mm"},
+    {"rotor not smaller than the bore", "pump_4p36s.toml", "outer_diameter_mm = 135.1",
+     "outer_diameter_mm = 136.0", "rotor.outer_diameter_mm", "must be smaller than the stator bore",
+     "outer_diameter_mm = 136.0"},
+    {"slot opening wider than the slot pitch", "pump_4p36s.toml", "opening_width_mm = 3.0",
+     "opening_width_mm = 12.5", "stator.slot.opening_width_mm", "narrower than the slot pitch",
+     "opening_width_mm"},
+    {"slot opening wider than the slot body", "pump_4p36s.toml", "opening_width_mm = 3.0",
+     "opening_width_mm = 7.5", "stator.slot.opening_width_mm", "narrower than the slot body",
+     "opening_width_mm"},
+    {"slot deeper than the yoke allows", "pump_4p36s.toml", "slot_depth_mm = 19.0",
+     "slot_depth_mm = 37.5", "stator.slot.slot_depth_mm", "reaches through the yoke",
+     "slot_depth_mm"},
+    {"slot too shallow for its tips", "pump_4p36s.toml", "slot_depth_mm = 19.0",
+     "slot_depth_mm = 1.2", "stator.slot.slot_depth_mm", "too shallow", "slot_depth_mm"},
+    {"parallel slot leaves no tooth", "compressor_2p24s.toml", "slot_width_mm = 5.2",
+     "slot_width_mm = 12.6", "stator.slot.slot_width_mm", "teeth would have no width",
+     "slot_width_mm"},
+    {"wedge angle out of range", "pump_4p36s.toml", "wedge_angle_deg = 25.0",
+     "wedge_angle_deg = 80.0", "stator.slot.wedge_angle_deg", "must be in [0, 75] degrees",
+     "wedge_angle_deg"},
+    {"misspelt shape value", "pump_4p36s.toml", "shape = \"semi_closed\"", "shape = \"semi-closed\"",
+     "stator.slot.shape", "did you mean \"semi_closed\"", "semi-closed"},
+    {"key that the chosen body does not use", "pump_4p36s.toml", "tooth_width_mm = 5.6",
+     "tooth_width_mm = 5.6\nslot_width_mm = 6.0", "stator.slot.slot_width_mm", "does not apply",
+     "slot_width_mm"},
+    {"shaft cutting the bars", "pump_4p36s.toml", "shaft_diameter_mm = 48.0",
+     "shaft_diameter_mm = 104.0", "rotor.shaft_diameter_mm", "cuts the bars", "shaft_diameter_mm"},
+    {"shaft not smaller than the rotor", "pump_4p36s.toml", "shaft_diameter_mm = 48.0",
+     "shaft_diameter_mm = 140.0", "rotor.shaft_diameter_mm", "must be smaller than the rotor",
+     "shaft_diameter_mm"},
+    {"zero bridge", "pump_4p36s.toml", "bridge_thickness_mm = 0.5", "bridge_thickness_mm = 0",
+     "rotor.bar.bridge_thickness_mm", "must be a length in mm in (0", "bridge_thickness_mm"},
+    {"bars overlapping each other", "pump_4p36s.toml", "bars = 28", "bars = 80", "rotor.bar.shape",
+     "neighbouring bars overlap", ""},
+    {"teardrop shorter than its ends", "pump_4p36s.toml", "height_mm = 16.0", "height_mm = 4.0",
+     "rotor.bar.height_mm", "taller than twice", "height_mm = 4.0"},
+    {"slit wider than the bar", "compressor_2p24s.toml", "opening_width_mm = 1.0",
+     "opening_width_mm = 3.5", "rotor.bar.opening_width_mm", "narrower than the bar top",
+     "opening_width_mm = 3.5"},
+    {"radial slot wider than the slot pitch", "reference_radial_4p24s.toml", "slot_angle_deg = 7.5",
+     "slot_angle_deg = 16.0", "stator.slot.slot_angle_deg", "narrower than the slot pitch",
+     "slot_angle_deg"},
+    {"TOML syntax error", "pump_4p36s.toml", "poles = 4", "poles = ", "", "not valid TOML",
+     "poles ="},
+    {"unknown material", "pump_4p36s.toml", "stator_iron = \"M400-50A\"",
+     "stator_iron = \"M400-50X\"", "materials.stator_iron", "unknown material", "stator_iron"},
+    {"material of the wrong class", "pump_4p36s.toml", "coils = \"copper\"",
+     "coils = \"M400-50A\"", "materials.coils", "cannot be used for coils", "coils ="},
+    {"band nodes the sector cannot carry", "pump_4p36s.toml", "band_nodes = 2016",
+     "band_nodes = 2018", "mesh.band_nodes", "must be a multiple of 4", "band_nodes"},
+    {"element order 3", "pump_4p36s.toml", "order = 2", "order = 3", "mesh.order",
+     "must be an integer in [1, 2]", "order = 3"},
+    {"three winding layers", "pump_4p36s.toml", "layers = 2", "layers = 3", "winding.layers",
+     "must be an integer in [1, 2]", "layers = 3"},
+    {"negative current", "pump_4p36s.toml", "rms_a = 21.0", "rms_a = -21.0", "supply.rms_a",
+     "must be in [0,", "rms_a"},
+    {"zero frequency", "pump_4p36s.toml", "frequency_hz = 50.0", "frequency_hz = 0.0",
+     "supply.frequency_hz", "greater than 0 Hz", "frequency_hz"},
+    {"unknown phase key", "pump_4p36s.toml", "", "\n[supply.phases]\nb = { rms_amps = 20.0 }\n",
+     "supply.phases.b.rms_amps", "did you mean 'rms_a'", "rms_amps"},
+};
+
+int line_of(const std::string& text, const std::string& fragment) {
+  const auto at = text.find(fragment);
+  if (at == std::string::npos) return -1;
+  int line = 1;
+  for (std::size_t i = 0; i < at; ++i) line += text[i] == '\n';
+  return line;
+}
+
+}  // namespace
+
+TEST_CASE("every bad input ends with exit code 2 and a message naming file, line and key",
+          "[cases][cli]") {
+  const auto dir = test::temp_dir("bad_input");
+  int index = 0;
+  for (const BadCase& bad : catalogue) {
+    DYNAMIC_SECTION(bad.name) {
+      std::string text = test::read_text(test::example(bad.base));
+      if (std::string(bad.find).empty()) {
+        text += bad.replace;
+      } else {
+        const auto at = text.find(bad.find);
+        REQUIRE(at != std::string::npos);
+        text.replace(at, std::string(bad.find).size(), bad.replace);
+      }
+      const auto path = dir / fmt::format("bad_{:02d}.toml", index);
+      test::write_text(path, text);
+      const auto result = test::run_command(fmt::format("{} check {}", GAPFLUX_BINARY, path.string()));
+      INFO(result.output);
+      CHECK(result.exit_code == 2);
+      // One message on one line: file:line:col: error: key: what.
+      const std::regex shape(R"(^(\S+):(\d+):(\d+): error: (.*)\n$)");
+      std::smatch m;
+      REQUIRE(std::regex_match(result.output, m, shape));
+      CHECK(m[1] == path.string());
+      if (std::string(bad.at_line).size() > 0) CHECK(std::stoi(m[2]) == line_of(text, bad.at_line));
+      if (std::string(bad.key).size() > 0) CHECK_THAT(result.output, Catch::Contains(std::string(": ") + bad.key + ": "));
+      CHECK_THAT(result.output, Catch::Contains(bad.expect));
+    }
+    ++index;
+  }
+}
+
+TEST_CASE("a missing case file is bad input too", "[cases][cli]") {
+  const auto result = test::run_command(fmt::format("{} check /nonexistent/case.toml", GAPFLUX_BINARY));
+  CHECK(result.exit_code == 2);
+  CHECK_THAT(result.output, Catch::Contains("cannot open the case file"));
+}
+
+TEST_CASE("the demo cases pass the check", "[cases][cli]") {
+  for (const char* name : {"pump_4p36s.toml", "compressor_2p24s.toml", "reference_radial_4p24s.toml"}) {
+    const auto result = test::run_command(fmt::format("{} check {}", GAPFLUX_BINARY, test::example(name)));
+    INFO(result.output);
+    CHECK(result.exit_code == 0);
+    CHECK_THAT(result.output, Catch::Contains("check: ok"));
+  }
+}

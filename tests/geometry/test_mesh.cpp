@@ -1,0 +1,175 @@
+// Meshes of the demo cases: areas, sector edges, band rings, quality.
+#include <catch2/catch.hpp>
+
+#include <cmath>
+#include <numbers>
+#include <set>
+
+#include "cases/case_reader.hpp"
+#include "geometry/lamination.hpp"
+#include "geometry/mesher.hpp"
+#include "test_support.hpp"
+
+using namespace gapflux;
+
+namespace {
+
+constexpr double pi = std::numbers::pi;
+
+struct Meshed {
+  Case c;
+  Lamination lam;
+  Mesh mesh;
+};
+
+Meshed mesh_case(const std::string& text, const std::string& name) {
+  Meshed m;
+  m.c = read_case_text(text, name);
+  m.lam = build_lamination(m.c);
+  m.mesh = mesh_lamination(m.lam, resolve_mesh_settings(m.c, m.lam));
+  return m;
+}
+
+Meshed mesh_example(const std::string& name, const std::string& find = "",
+                    const std::string& replace = "") {
+  std::string text = test::read_text(test::example(name));
+  if (!find.empty()) text.replace(text.find(find), find.size(), replace);
+  return mesh_case(text, name);
+}
+
+double band_area(const Lamination& lam) {
+  return 0.5 * lam.symmetry.sector_angle_rad *
+         (std::pow(lam.band_outer_radius_m, 2) - std::pow(lam.band_inner_radius_m, 2));
+}
+
+}  // namespace
+
+TEST_CASE("demo meshes: exact and meshed areas, quality, sector edges, band rings", "[geometry][mesh]") {
+  for (const char* name : {"pump_4p36s.toml", "compressor_2p24s.toml", "reference_radial_4p24s.toml"}) {
+    DYNAMIC_SECTION(name) {
+      const Meshed m = mesh_example(name);
+      const Mesh& mesh = m.mesh;
+      const Lamination& lam = m.lam;
+      const double ts = lam.symmetry.sector_angle_rad;
+      const MeshQuality q = mesh_quality(mesh);
+
+      // Exact geometry: the CAD faces fill the sector disk of radius R_out less the band,
+      // π(R_out² − R_shaft²)/n plus the shaft; Gmsh/OCC face integrals, to 1e-9 relative.
+      double exact_total = 0.0, exact_shaft = 0.0;
+      for (const MeshRegion& r : mesh.regions) {
+        if (r.tag.kind == RegionKind::moving_band) continue;
+        exact_total += r.exact_area_m2;
+        if (r.tag.kind == RegionKind::shaft) exact_shaft += r.exact_area_m2;
+      }
+      const double R_out = lam.stator_outer_radius_m, R_sh = lam.shaft_radius_m;
+      CHECK(exact_total - exact_shaft ==
+            Approx(0.5 * ts * (R_out * R_out - R_sh * R_sh) - band_area(lam)).epsilon(1e-9));
+      CHECK(exact_shaft == Approx(0.5 * ts * R_sh * R_sh).epsilon(1e-9));
+
+      // Each region's exact CAD area equals its outline's Green's-theorem area (iron: the ring
+      // less what the pieces inside it take).
+      for (const MeshRegion& r : mesh.regions) {
+        if (r.tag.kind == RegionKind::stator_iron || r.tag.kind == RegionKind::rotor_iron ||
+            r.tag.kind == RegionKind::moving_band)
+          continue;
+        double outline_area = 0.0;
+        for (const Piece& p : lam.pieces)
+          if (p.tag == r.tag) outline_area += signed_area(p.outer);
+        INFO(r.name);
+        CHECK(r.exact_area_m2 == Approx(outline_area).epsilon(1e-9));
+      }
+
+      // Meshed areas with curved P2 geometry: a quadratic through an arc's ends and midpoint
+      // misses R²φ⁵/30 per edge of half-angle φ (series of the segment areas); with at least 16
+      // edges per turn on small arcs (φ ≤ π/16) that is below 3e-5 of any region here.
+      for (std::size_t i = 0; i < mesh.regions.size(); ++i) {
+        if (mesh.regions[i].tag.kind == RegionKind::moving_band) continue;
+        INFO(mesh.regions[i].name);
+        CHECK(q.area_per_region_m2[i] == Approx(mesh.regions[i].exact_area_m2).epsilon(5e-5));
+      }
+
+      // Quality on the vertex triangles.
+      CHECK(q.min_angle_deg >= 20.0);
+      CHECK(q.max_aspect_ratio < 3.0);
+      for (std::size_t t = 0; t < mesh.n_triangles(); ++t) REQUIRE(triangle_area(mesh, t) > 0.0);
+
+      // Sector edges: each node on θ = sector angle is its partner on θ = 0 rotated, to 1e-12 m.
+      REQUIRE(lam.symmetry.sectors > 1);
+      REQUIRE(!mesh.periodic_pairs.empty());
+      const Eigen::Rotation2Dd turn(ts);
+      double worst = 0.0;
+      for (const auto& [slave, master] : mesh.periodic_pairs)
+        worst = std::max(worst, (turn * mesh.nodes[master] - mesh.nodes[slave]).norm());
+      CHECK(worst < 1e-12);
+
+      // Band rings: same count, uniform to 1e-12 rad, on their circles.
+      const BandRing& s = mesh.stator_ring;
+      const BandRing& r = mesh.rotor_ring;
+      REQUIRE(s.vertices.size() == r.vertices.size());
+      const std::size_t intervals = s.vertices.size() - 1;
+      CHECK(s.pitch_rad * intervals == Approx(ts).epsilon(1e-14));
+      CHECK(s.midpoints.size() == intervals);
+      CHECK(r.midpoints.size() == intervals);
+      double angle_error = 0.0, radius_error = 0.0;
+      for (const BandRing* ring : {&s, &r}) {
+        for (std::size_t i = 0; i < ring->vertices.size(); ++i) {
+          const Vec2& p = mesh.nodes[ring->vertices[i]];
+          angle_error = std::max(angle_error, std::abs(std::atan2(p.y(), p.x()) - i * ring->pitch_rad));
+          radius_error = std::max(radius_error, std::abs(p.norm() - ring->radius_m));
+        }
+        for (std::size_t i = 0; i < ring->midpoints.size(); ++i) {
+          const Vec2& p = mesh.nodes[ring->midpoints[i]];
+          angle_error = std::max(angle_error, std::abs(std::atan2(p.y(), p.x()) - (i + 0.5) * ring->pitch_rad));
+          radius_error = std::max(radius_error, std::abs(p.norm() - ring->radius_m));
+        }
+      }
+      CHECK(angle_error < 1e-12);
+      CHECK(radius_error < 1e-12);
+
+      // Every outer node lies on the outer circle; rotor-side nodes lie inside the band.
+      for (int n : mesh.outer_nodes) REQUIRE(std::abs(mesh.nodes[n].norm() - R_out) < 1e-12);
+      for (std::size_t n = 0; n < mesh.nodes.size(); ++n)
+        if (mesh.node_on_rotor[n]) REQUIRE(mesh.nodes[n].norm() <= lam.band_inner_radius_m + 1e-12);
+    }
+  }
+}
+
+TEST_CASE("stator iron triangles know their tooth", "[geometry][mesh]") {
+  const Meshed m = mesh_example("pump_4p36s.toml");
+  std::set<int> teeth;
+  for (std::size_t t = 0; t < m.mesh.n_triangles(); ++t) {
+    const bool iron = m.mesh.regions[m.mesh.triangle_region[t]].tag.kind == RegionKind::stator_iron;
+    CHECK((m.mesh.tooth_index[t] >= 0) == iron);
+    if (iron) teeth.insert(m.mesh.tooth_index[t]);
+  }
+  // A quarter of 36 teeth; tooth 0 is split by θ = 0 and tooth 9 by θ = 90°.
+  CHECK(teeth == std::set<int>{0, 1, 2, 3, 4, 5, 6, 7, 8, 9});
+}
+
+TEST_CASE("first-order mesh: areas within the chord error", "[geometry][mesh]") {
+  const Meshed m = mesh_example("reference_radial_4p24s.toml", "[supply]", "[mesh]\norder = 1\n\n[supply]");
+  const MeshQuality q = mesh_quality(m.mesh);
+  REQUIRE(m.mesh.order == 1);
+  double exact = 0.0;
+  for (const MeshRegion& r : m.mesh.regions) exact += r.exact_area_m2;
+  exact -= band_area(m.lam);
+  // Straight chords of length h on a circle of radius R lose h³/(12R) each: relative loss is
+  // about (h/R)²/12 summed over the curved boundaries; 1e-3 bounds it for these sizes.
+  CHECK(q.total_area_m2 == Approx(exact).epsilon(1e-3));
+  CHECK(q.total_area_m2 < exact);
+  CHECK(q.min_angle_deg >= 20.0);
+}
+
+TEST_CASE("full model: closed rings, no sector edges, the whole disk", "[geometry][mesh]") {
+  const Meshed m = mesh_example("reference_radial_4p24s.toml", "[supply]",
+                                "[mesh]\nsymmetry = \"full\"\nband_nodes = 720\n\n[supply]");
+  REQUIRE(m.mesh.symmetry.sectors == 1);
+  CHECK(m.mesh.periodic_pairs.empty());
+  CHECK(m.mesh.stator_ring.vertices.size() == 720);
+  CHECK(m.mesh.rotor_ring.vertices.size() == 720);
+  CHECK(m.mesh.stator_ring.midpoints.size() == 720);
+  double exact = 0.0;
+  for (const MeshRegion& r : m.mesh.regions) exact += r.exact_area_m2;
+  CHECK(exact == Approx(pi * 0.1 * 0.1).epsilon(1e-9));
+  CHECK(mesh_quality(m.mesh).min_angle_deg >= 20.0);
+}
