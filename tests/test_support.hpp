@@ -1,11 +1,11 @@
 #pragma once
 // Helpers shared by the tests: example paths, temporary directories, running the CLI.
+#include <sys/wait.h>
 #include <cstdio>
 #include <filesystem>
 #include <fstream>
 #include <sstream>
 #include <string>
-#include <sys/wait.h>
 
 namespace gapflux::test {
 

@@ -1,8 +1,8 @@
 // The bad-input catalogue: each mutation of a valid demo case must end `gapflux check` with exit
 // code 2 and one message that names the file, the line and column, the key path, and what would
 // be valid.
-#include <catch2/catch.hpp>
 #include <fmt/format.h>
+#include <catch2/catch.hpp>
 
 #include <regex>
 
@@ -14,8 +14,8 @@ namespace {
 
 struct BadCase {
   const char* name;
-  const char* base;     // example file the mutation starts from
-  const char* find;     // text replaced ("" = append `replace` at the end)
+  const char* base;  // example file the mutation starts from
+  const char* find;  // text replaced ("" = append `replace` at the end)
   const char* replace;
   const char* key;      // key path the message must name
   const char* expect;   // fragment the message must contain (what was wrong / what is valid)
@@ -30,8 +30,8 @@ const BadCase catalogue[] = {
      "[suply]"},
     {"missing required key", "pump_4p36s.toml", "slots = 36\n", "", "stator.slots",
      "required key is missing", "[stator]"},
-    {"missing required table", "compressor_2p24s.toml", "[supply]\nfrequency_hz = 50.0\nrms_a = 8.0\n",
-     "", "supply", "required key is missing", ""},
+    {"missing required table", "compressor_2p24s.toml",
+     "[supply]\nfrequency_hz = 50.0\nrms_a = 8.0\n", "", "supply", "required key is missing", ""},
     {"string for an integer", "pump_4p36s.toml", "poles = 4", "poles = \"four\"", "machine.poles",
      "expected an integer", "poles ="},
     {"float for an integer", "pump_4p36s.toml", "poles = 4", "poles = 4.0", "machine.poles",
@@ -65,8 +65,8 @@ const BadCase catalogue[] = {
     {"wedge angle out of range", "pump_4p36s.toml", "wedge_angle_deg = 25.0",
      "wedge_angle_deg = 80.0", "stator.slot.wedge_angle_deg", "must be in [0, 75] degrees",
      "wedge_angle_deg"},
-    {"misspelt shape value", "pump_4p36s.toml", "shape = \"semi_closed\"", "shape = \"semi-closed\"",
-     "stator.slot.shape", "did you mean \"semi_closed\"", "semi-closed"},
+    {"misspelt shape value", "pump_4p36s.toml", "shape = \"semi_closed\"",
+     "shape = \"semi-closed\"", "stator.slot.shape", "did you mean \"semi_closed\"", "semi-closed"},
     {"key that the chosen body does not use", "pump_4p36s.toml", "tooth_width_mm = 5.6",
      "tooth_width_mm = 5.6\nslot_width_mm = 6.0", "stator.slot.slot_width_mm", "does not apply",
      "slot_width_mm"},
@@ -91,8 +91,8 @@ const BadCase catalogue[] = {
      "poles ="},
     {"unknown material", "pump_4p36s.toml", "stator_iron = \"M400-50A\"",
      "stator_iron = \"M400-50X\"", "materials.stator_iron", "unknown material", "stator_iron"},
-    {"material of the wrong class", "pump_4p36s.toml", "coils = \"copper\"",
-     "coils = \"M400-50A\"", "materials.coils", "cannot be used for coils", "coils ="},
+    {"material of the wrong class", "pump_4p36s.toml", "coils = \"copper\"", "coils = \"M400-50A\"",
+     "materials.coils", "cannot be used for coils", "coils ="},
     {"band nodes the sector cannot carry", "pump_4p36s.toml", "band_nodes = 2016",
      "band_nodes = 2018", "mesh.band_nodes", "must be a multiple of 4", "band_nodes"},
     {"element order 3", "pump_4p36s.toml", "order = 2", "order = 3", "mesh.order",
@@ -133,7 +133,8 @@ TEST_CASE("every bad input ends with exit code 2 and a message naming file, line
       }
       const auto path = dir / fmt::format("bad_{:02d}.toml", index);
       test::write_text(path, text);
-      const auto result = test::run_command(fmt::format("{} check {}", GAPFLUX_BINARY, path.string()));
+      const auto result =
+          test::run_command(fmt::format("{} check {}", GAPFLUX_BINARY, path.string()));
       INFO(result.output);
       CHECK(result.exit_code == 2);
       // One message on one line: file:line:col: error: key: what.
@@ -142,7 +143,8 @@ TEST_CASE("every bad input ends with exit code 2 and a message naming file, line
       REQUIRE(std::regex_match(result.output, m, shape));
       CHECK(m[1] == path.string());
       if (std::string(bad.at_line).size() > 0) CHECK(std::stoi(m[2]) == line_of(text, bad.at_line));
-      if (std::string(bad.key).size() > 0) CHECK_THAT(result.output, Catch::Contains(std::string(": ") + bad.key + ": "));
+      if (std::string(bad.key).size() > 0)
+        CHECK_THAT(result.output, Catch::Contains(std::string(": ") + bad.key + ": "));
       CHECK_THAT(result.output, Catch::Contains(bad.expect));
     }
     ++index;
@@ -150,14 +152,17 @@ TEST_CASE("every bad input ends with exit code 2 and a message naming file, line
 }
 
 TEST_CASE("a missing case file is bad input too", "[cases][cli]") {
-  const auto result = test::run_command(fmt::format("{} check /nonexistent/case.toml", GAPFLUX_BINARY));
+  const auto result =
+      test::run_command(fmt::format("{} check /nonexistent/case.toml", GAPFLUX_BINARY));
   CHECK(result.exit_code == 2);
   CHECK_THAT(result.output, Catch::Contains("cannot open the case file"));
 }
 
 TEST_CASE("the demo cases pass the check", "[cases][cli]") {
-  for (const char* name : {"pump_4p36s.toml", "compressor_2p24s.toml", "reference_radial_4p24s.toml"}) {
-    const auto result = test::run_command(fmt::format("{} check {}", GAPFLUX_BINARY, test::example(name)));
+  for (const char* name :
+       {"pump_4p36s.toml", "compressor_2p24s.toml", "reference_radial_4p24s.toml"}) {
+    const auto result =
+        test::run_command(fmt::format("{} check {}", GAPFLUX_BINARY, test::example(name)));
     INFO(result.output);
     CHECK(result.exit_code == 0);
     CHECK_THAT(result.output, Catch::Contains("check: ok"));

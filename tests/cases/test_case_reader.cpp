@@ -47,8 +47,7 @@ TEST_CASE("source positions point at the key's line", "[cases]") {
   for (std::size_t i = 0; i < at; ++i) line += text[i] == '\n';
   CHECK(c.sources.find("stator.slot.tooth_width_mm").line == line);
   // A key that was not written falls back to its table.
-  CHECK(c.sources.find("stator.slot.wedge_height_mm").line ==
-        c.sources.find("stator.slot").line);
+  CHECK(c.sources.find("stator.slot.wedge_height_mm").line == c.sources.find("stator.slot").line);
 }
 
 TEST_CASE("per-phase supply overrides keep the other phases balanced", "[cases]") {

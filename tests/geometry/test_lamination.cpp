@@ -86,8 +86,9 @@ TEST_CASE("radial-slot stator and smooth rotor: every area in closed form", "[ge
 
 TEST_CASE("open flat-bottomed slot: rectangle less the bore's circular segment", "[geometry]") {
   // Change the reference stator to open parallel slots, 6 mm wide, 20 mm deep, flat bottom.
-  const Case c = edited("reference_radial_4p24s.toml", "shape = \"open_radial\"\nslot_angle_deg = 7.5",
-                        "shape = \"open\"\nslot_width_mm = 6.0\nbottom = \"flat\"");
+  const Case c =
+      edited("reference_radial_4p24s.toml", "shape = \"open_radial\"\nslot_angle_deg = 7.5",
+             "shape = \"open\"\nslot_width_mm = 6.0\nbottom = \"flat\"");
   const Lamination lam = build_lamination(c);
   const double R = 0.060, w = 0.006, x_max = R + 0.020;
   const double x_b = std::sqrt(R * R - w * w / 4);
@@ -97,7 +98,8 @@ TEST_CASE("open flat-bottomed slot: rectangle less the bore's circular segment",
   const double slot = w * (x_max - x_b) - segment;
   CHECK(lam.slot.slot_area_m2 == Approx(slot).epsilon(1e-12));
   CHECK(area_of_kind(lam, RegionKind::coil_side) == Approx(6 * slot).epsilon(1e-12));
-  CHECK(lam.slot.tooth_width_min_m == Approx(2 * (x_b * std::sin(pi / 24) - 0.5 * w * std::cos(pi / 24))));
+  CHECK(lam.slot.tooth_width_min_m ==
+        Approx(2 * (x_b * std::sin(pi / 24) - 0.5 * w * std::cos(pi / 24))));
 }
 
 TEST_CASE("bars: round, teardrop and rectangular areas in closed form", "[geometry]") {
@@ -123,9 +125,10 @@ TEST_CASE("bars: round, teardrop and rectangular areas in closed form", "[geomet
     CHECK(area_of_kind(lam, RegionKind::bar_opening) == Approx(10 * slit).epsilon(1e-12));
   }
   {
-    const Case c = edited("pump_4p36s.toml",
-                          "shape = \"teardrop\"\ntop_radius_mm = 2.6\nbottom_radius_mm = 1.4\nheight_mm = 16.0",
-                          "shape = \"round\"\ndiameter_mm = 5.0");
+    const Case c = edited(
+        "pump_4p36s.toml",
+        "shape = \"teardrop\"\ntop_radius_mm = 2.6\nbottom_radius_mm = 1.4\nheight_mm = 16.0",
+        "shape = \"round\"\ndiameter_mm = 5.0");
     const Lamination lam = build_lamination(c);
     CHECK(lam.bar.bar_area_m2 == Approx(pi * 0.0025 * 0.0025).epsilon(1e-12));
   }

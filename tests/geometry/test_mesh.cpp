@@ -44,8 +44,10 @@ double band_area(const Lamination& lam) {
 
 }  // namespace
 
-TEST_CASE("demo meshes: exact and meshed areas, quality, sector edges, band rings", "[geometry][mesh]") {
-  for (const char* name : {"pump_4p36s.toml", "compressor_2p24s.toml", "reference_radial_4p24s.toml"}) {
+TEST_CASE("demo meshes: exact and meshed areas, quality, sector edges, band rings",
+          "[geometry][mesh]") {
+  for (const char* name :
+       {"pump_4p36s.toml", "compressor_2p24s.toml", "reference_radial_4p24s.toml"}) {
     DYNAMIC_SECTION(name) {
       const Meshed m = mesh_example(name);
       const Mesh& mesh = m.mesh;
@@ -114,12 +116,14 @@ TEST_CASE("demo meshes: exact and meshed areas, quality, sector edges, band ring
       for (const BandRing* ring : {&s, &r}) {
         for (std::size_t i = 0; i < ring->vertices.size(); ++i) {
           const Vec2& p = mesh.nodes[ring->vertices[i]];
-          angle_error = std::max(angle_error, std::abs(std::atan2(p.y(), p.x()) - i * ring->pitch_rad));
+          angle_error =
+              std::max(angle_error, std::abs(std::atan2(p.y(), p.x()) - i * ring->pitch_rad));
           radius_error = std::max(radius_error, std::abs(p.norm() - ring->radius_m));
         }
         for (std::size_t i = 0; i < ring->midpoints.size(); ++i) {
           const Vec2& p = mesh.nodes[ring->midpoints[i]];
-          angle_error = std::max(angle_error, std::abs(std::atan2(p.y(), p.x()) - (i + 0.5) * ring->pitch_rad));
+          angle_error = std::max(angle_error,
+                                 std::abs(std::atan2(p.y(), p.x()) - (i + 0.5) * ring->pitch_rad));
           radius_error = std::max(radius_error, std::abs(p.norm() - ring->radius_m));
         }
       }
@@ -147,7 +151,8 @@ TEST_CASE("stator iron triangles know their tooth", "[geometry][mesh]") {
 }
 
 TEST_CASE("first-order mesh: areas within the chord error", "[geometry][mesh]") {
-  const Meshed m = mesh_example("reference_radial_4p24s.toml", "[supply]", "[mesh]\norder = 1\n\n[supply]");
+  const Meshed m =
+      mesh_example("reference_radial_4p24s.toml", "[supply]", "[mesh]\norder = 1\n\n[supply]");
   const MeshQuality q = mesh_quality(m.mesh);
   REQUIRE(m.mesh.order == 1);
   double exact = 0.0;

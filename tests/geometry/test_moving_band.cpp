@@ -15,13 +15,16 @@ using namespace gapflux;
 
 namespace {
 
-double cross(const Vec2& a, const Vec2& b) { return a.x() * b.y() - a.y() * b.x(); }
+double cross(const Vec2& a, const Vec2& b) {
+  return a.x() * b.y() - a.y() * b.x();
+}
 
 // Area of a triangle with straight or parabolic edges: the straight triangle plus, per edge,
 // the parabolic segment 2/3·base·height (Archimedes), signed outward for a counter-clockwise
 // triangle.
 double curved_area(const BandElement& e, int order) {
-  const Vec2 &a = e.corners[0].position_m, &b = e.corners[1].position_m, &c = e.corners[2].position_m;
+  const Vec2 &a = e.corners[0].position_m, &b = e.corners[1].position_m,
+             &c = e.corners[2].position_m;
   double area = 0.5 * cross(b - a, c - a);
   if (order == 2) {
     const Vec2* ends[3][2] = {{&a, &b}, {&b, &c}, {&c, &a}};
@@ -57,30 +60,37 @@ TEST_CASE("band triangles are valid and fill the band at any rotor angle", "[geo
     const Setup s = setup("reference_radial_4p24s.toml", mesh_table);
     const Mesh& mesh = s.mesh;
     const double ts = mesh.symmetry.sector_angle_rad;
-    const double exact = 0.5 * ts * (std::pow(s.lam.band_outer_radius_m, 2) - std::pow(s.lam.band_inner_radius_m, 2));
+    const double exact =
+        0.5 * ts *
+        (std::pow(s.lam.band_outer_radius_m, 2) - std::pow(s.lam.band_inner_radius_m, 2));
     const double pitch = mesh.stator_ring.pitch_rad;
     for (double angle : {0.0, 0.3 * pitch, 0.5 * pitch, 0.999 * pitch, 7.0 * pitch, 12.25 * pitch,
                          1.7, -0.4, 3.0 * ts + 0.1 * pitch}) {
-      DYNAMIC_SECTION("order " << mesh.order << ", sectors " << mesh.symmetry.sectors << ", angle " << angle) {
+      DYNAMIC_SECTION("order " << mesh.order << ", sectors " << mesh.symmetry.sectors << ", angle "
+                               << angle) {
         const BandMesh band = build_moving_band(mesh, angle);
-        REQUIRE(band.elements.size() == 2 * (mesh.stator_ring.vertices.size() - (mesh.symmetry.sectors > 1 ? 1 : 0)));
+        REQUIRE(band.elements.size() ==
+                2 * (mesh.stator_ring.vertices.size() - (mesh.symmetry.sectors > 1 ? 1 : 0)));
         double total = 0.0;
         for (const BandElement& e : band.elements) {
           const double straight = 0.5 * cross(e.corners[1].position_m - e.corners[0].position_m,
-                                               e.corners[2].position_m - e.corners[0].position_m);
+                                              e.corners[2].position_m - e.corners[0].position_m);
           REQUIRE(straight > 0.0);
           total += curved_area(e, mesh.order);
         }
         // Order 2: parabolic arcs approximate the circles to O((h/R)^4); order 1: chords lose
         // about (h/R)²/12 of the band, far above the band's own thickness ratio here.
-        if (mesh.order == 2) CHECK(total == Approx(exact).epsilon(1e-6));
-        else CHECK(total == Approx(exact).epsilon(2e-2));
+        if (mesh.order == 2)
+          CHECK(total == Approx(exact).epsilon(1e-6));
+        else
+          CHECK(total == Approx(exact).epsilon(2e-2));
       }
     }
   }
 }
 
-TEST_CASE("band corners sit on the rotated rotor ring and carry the sector sign", "[geometry][band]") {
+TEST_CASE("band corners sit on the rotated rotor ring and carry the sector sign",
+          "[geometry][band]") {
   const Setup s = setup("pump_4p36s.toml");
   const Mesh& mesh = s.mesh;
   REQUIRE(mesh.symmetry.antiperiodic);
@@ -99,8 +109,9 @@ TEST_CASE("band corners sit on the rotated rotor ring and carry the sector sign"
       }
       rotor_vertices.insert(c.node);
       // A corner past θ = 0 (turned back by the rotor) stands for the node one sector on.
-      const Vec2 expected = Eigen::Rotation2Dd(angle + (c.sign < 0 ? -mesh.symmetry.sector_angle_rad : 0.0)) *
-                            mesh.nodes[c.node];
+      const Vec2 expected =
+          Eigen::Rotation2Dd(angle + (c.sign < 0 ? -mesh.symmetry.sector_angle_rad : 0.0)) *
+          mesh.nodes[c.node];
       CHECK((expected - c.position_m).norm() < 1e-12);
       flipped += c.sign < 0;
     }
@@ -121,5 +132,6 @@ TEST_CASE("a rotation by whole band pitches reproduces the aligned band", "[geom
   // Same stator corners and the same shapes, the rotor corners three vertices further back.
   for (std::size_t i = 0; i < aligned.elements.size(); ++i)
     for (int k = 0; k < 6; ++k)
-      CHECK((aligned.elements[i].corners[k].position_m - turned.elements[i].corners[k].position_m).norm() < 1e-12);
+      CHECK((aligned.elements[i].corners[k].position_m - turned.elements[i].corners[k].position_m)
+                .norm() < 1e-12);
 }

@@ -1,11 +1,11 @@
 // mesh.vtu read back with VTK's own reader.
-#include <catch2/catch.hpp>
 #include <vtkCellData.h>
 #include <vtkDataArray.h>
 #include <vtkFieldData.h>
 #include <vtkNew.h>
 #include <vtkUnstructuredGrid.h>
 #include <vtkXMLUnstructuredGridReader.h>
+#include <catch2/catch.hpp>
 
 #include <map>
 
@@ -30,14 +30,17 @@ TEST_CASE("mesh.vtu round trip through VTK's reader", "[postproc]") {
   reader->Update();
   vtkUnstructuredGrid* grid = reader->GetOutput();
   REQUIRE(grid != nullptr);
-  CHECK(grid->GetNumberOfCells() == static_cast<vtkIdType>(mesh.n_triangles() + band.elements.size()));
+  CHECK(grid->GetNumberOfCells() ==
+        static_cast<vtkIdType>(mesh.n_triangles() + band.elements.size()));
   CHECK(grid->GetCellType(0) == VTK_QUADRATIC_TRIANGLE);
   vtkDataArray* region = grid->GetCellData()->GetArray("region_id");
   REQUIRE(region != nullptr);
   std::map<int, std::size_t> written, read;
-  for (std::size_t t = 0; t < mesh.n_triangles(); ++t) written[mesh.regions[mesh.triangle_region[t]].id]++;
+  for (std::size_t t = 0; t < mesh.n_triangles(); ++t)
+    written[mesh.regions[mesh.triangle_region[t]].id]++;
   written[mesh.regions[mesh.region_index("moving_band")].id] += band.elements.size();
-  for (vtkIdType i = 0; i < grid->GetNumberOfCells(); ++i) read[static_cast<int>(region->GetTuple1(i))]++;
+  for (vtkIdType i = 0; i < grid->GetNumberOfCells(); ++i)
+    read[static_cast<int>(region->GetTuple1(i))]++;
   CHECK(read == written);
   // The id → name map: ids, and names as NUL-terminated bytes in the same order.
   vtkDataArray* ids = grid->GetFieldData()->GetArray("region_ids");
@@ -48,8 +51,10 @@ TEST_CASE("mesh.vtu round trip through VTK's reader", "[postproc]") {
   std::vector<std::string> decoded(1);
   for (vtkIdType i = 0; i < names->GetNumberOfTuples(); ++i) {
     const char ch = static_cast<char>(names->GetTuple1(i));
-    if (ch == '\0') decoded.emplace_back();
-    else decoded.back() += ch;
+    if (ch == '\0')
+      decoded.emplace_back();
+    else
+      decoded.back() += ch;
   }
   decoded.pop_back();
   REQUIRE(decoded.size() == mesh.regions.size());

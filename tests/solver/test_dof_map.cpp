@@ -32,6 +32,7 @@ TEST_CASE("dof map: outer nodes fixed, sector edges tied with the antiperiodic s
   CHECK(map.n_dofs == static_cast<int>(mesh.nodes.size() - tied_or_fixed));
   std::set<int> dofs;
   for (std::size_t n = 0; n < mesh.nodes.size(); ++n)
-    if (!slaves.count(static_cast<int>(n)) && !map.is_fixed(static_cast<int>(n))) dofs.insert(map.dof_of_node[n]);
+    if (!slaves.count(static_cast<int>(n)) && !map.is_fixed(static_cast<int>(n)))
+      dofs.insert(map.dof_of_node[n]);
   CHECK(static_cast<int>(dofs.size()) == map.n_dofs);
 }
