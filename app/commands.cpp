@@ -26,7 +26,7 @@ struct Prepared {
 Prepared prepare(const std::string& case_path) {
   Prepared p;
   p.c = read_case_file(case_path);
-  check_region_materials(p.c);
+  resolve_region_materials(p.c);
   p.lamination = build_lamination(p.c);
   p.mesh_settings = resolve_mesh_settings(p.c, p.lamination);
   return p;

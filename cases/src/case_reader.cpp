@@ -245,8 +245,37 @@ WindingSpec parse_winding(TableReader t, int slots, int poles) {
   return w;
 }
 
+MaterialDefinition parse_material_definition(TableReader t, const std::string& name) {
+  MaterialDefinition d;
+  d.name = name;
+  d.kind =
+      static_cast<MaterialKind>(choice(t, "kind", {"air", "conductor", "steel"}, std::nullopt));
+  auto h = t.number_array("bh_h_a_per_m");
+  auto b = t.number_array("bh_b_tesla");
+  if (h.has_value() != b.has_value())
+    throw t.missing(h ? "bh_b_tesla" : "bh_h_a_per_m",
+                    "both bh_h_a_per_m and bh_b_tesla, of the same length");
+  if (h) {
+    d.bh_h_a_per_m = *h;
+    d.bh_b_tesla = *b;
+    t.know("relative_permeability");
+    if (t.has("relative_permeability"))
+      throw t.error("relative_permeability", "give either a B–H table or a relative permeability");
+  } else {
+    d.relative_permeability = number_in(t, "relative_permeability", 1.0, 1.0, 1e7, "");
+  }
+  d.conductivity_s_per_m = number_in(t, "conductivity_s_per_m", 0.0, 0.0, 1e9, "S/m");
+  d.temperature_coefficient_per_k =
+      number_in(t, "temperature_coefficient_per_k", 0.0, -0.1, 0.1, "1/K");
+  d.density_kg_per_m3 = number_in(t, "density_kg_per_m3", 0.0, 0.0, 30000.0, "kg/m³");
+  if (d.kind == MaterialKind::conductor && d.conductivity_s_per_m <= 0.0)
+    throw t.missing("conductivity_s_per_m", "the conductivity of a conductor, in S/m (> 0)");
+  t.finish();
+  return d;
+}
+
 MaterialsSpec parse_materials(std::optional<TableReader> t) {
-  MaterialsSpec m{"M400-50A", "M400-50A", "copper", "aluminium", "shaft_steel"};
+  MaterialsSpec m{"M400-50A", "M400-50A", "copper", "aluminium", "shaft_steel", {}};
   if (!t) return m;
   const auto name = [&](const std::string& key, std::string& out) {
     if (auto v = t->string(key)) {
@@ -259,6 +288,14 @@ MaterialsSpec parse_materials(std::optional<TableReader> t) {
   name("coils", m.coils);
   name("bars", m.bars);
   name("shaft", m.shaft);
+  if (auto defs = t->table("define")) {
+    for (const std::string& key : defs->keys()) {
+      auto table = defs->table(key);
+      if (!table) throw defs->error(key, "a material definition must be a table");
+      m.definitions.push_back(parse_material_definition(*table, key));
+    }
+    defs->finish();
+  }
   t->finish();
   return m;
 }

@@ -131,6 +131,32 @@ std::optional<std::string> TableReader::string(const std::string& key) {
   throw error(key, fmt::format("expected a string, found {}", type_name(*n)));
 }
 
+std::optional<std::vector<double>> TableReader::number_array(const std::string& key) {
+  mark(key);
+  const auto* n = static_cast<const toml::node*>(node(key));
+  if (!n) return std::nullopt;
+  const auto* array = n->as_array();
+  if (!array)
+    throw error(key, fmt::format("expected an array of numbers, found {}", type_name(*n)));
+  std::vector<double> out;
+  for (const auto& item : *array) {
+    if (auto v = item.value_exact<double>())
+      out.push_back(*v);
+    else if (auto i = item.value_exact<int64_t>())
+      out.push_back(static_cast<double>(*i));
+    else
+      throw InputError(doc_->file, to_pos(item.source()), key_path(key),
+                       fmt::format("expected numbers only, found {}", type_name(item)));
+  }
+  return out;
+}
+
+std::vector<std::string> TableReader::keys() const {
+  std::vector<std::string> out;
+  for (const auto& [k, v] : *static_cast<const toml::table*>(table_)) out.emplace_back(k.str());
+  return out;
+}
+
 std::optional<TableReader> TableReader::table(const std::string& key) {
   mark(key);
   const auto* n = static_cast<const toml::node*>(node(key));

@@ -27,7 +27,9 @@ class TableReader {
   std::optional<double> number(const std::string& key);
   std::optional<long long> integer(const std::string& key);
   std::optional<std::string> string(const std::string& key);
+  std::optional<std::vector<double>> number_array(const std::string& key);
   std::optional<TableReader> table(const std::string& key);
+  std::vector<std::string> keys() const;
   // Marks keys as belonging to the schema without reading them (for "does not apply" messages).
   void know(const std::string& key) { known_.push_back(key); }
 

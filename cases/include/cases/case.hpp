@@ -79,13 +79,28 @@ struct WindingSpec {
   int parallel_paths = 1;
 };
 
-// Region → material name. Names are resolved against the material library in materials/.
+enum class MaterialKind { air, conductor, steel };
+
+// A material the case defines itself ([materials.define.NAME]); SI units.
+struct MaterialDefinition {
+  std::string name;
+  MaterialKind kind = MaterialKind::steel;
+  double relative_permeability = 1.0;  // when no B–H table is given
+  std::vector<double> bh_h_a_per_m, bh_b_tesla;
+  double conductivity_s_per_m = 0.0;
+  double temperature_coefficient_per_k = 0.0;
+  double density_kg_per_m3 = 0.0;
+};
+
+// Region → material name. Names are resolved against the case's own definitions, then the
+// material library in materials/.
 struct MaterialsSpec {
   std::string stator_iron;
   std::string rotor_iron;
   std::string coils;
   std::string bars;
   std::string shaft;
+  std::vector<MaterialDefinition> definitions;
 };
 
 enum class Feed { current };

@@ -1,27 +1,46 @@
 #pragma once
-// The built-in material names and what each stands for. Curves, conductivities and loss figures
-// arrive with the solver; for now the library answers which names exist, so that a case naming
-// an unknown material is rejected before any meshing.
+// Materials: the built-in library and the case's own definitions, resolved per region.
+// A material is linear (relative permeability) or nonlinear (a B–H curve); conductors carry a
+// conductivity at 20 °C with its temperature coefficient; steels carry a density and the
+// grade's specific-loss figure.
+#include <memory>
+#include <optional>
 #include <string>
 #include <vector>
 
 #include "cases/case.hpp"
+#include "materials/bh_curve.hpp"
 
 namespace gapflux {
 
 enum class MaterialClass { air, conductor, electrical_steel, structural_steel };
 
-struct MaterialEntry {
+struct Material {
   std::string name;
-  MaterialClass kind;
-  std::string note;
+  MaterialClass kind = MaterialClass::air;
+  std::string note;                      // where the data come from
+  double relative_permeability = 1.0;    // used when `curve` is empty
+  std::shared_ptr<const BHCurve> curve;  // nonlinear steels
+  double conductivity_s_per_m = 0.0;     // at 20 °C
+  double temperature_coefficient_per_k = 0.0;
+  double density_kg_per_m3 = 0.0;
+  double specific_loss_w_per_kg = 0.0;  // grade figure at 1.5 T, 50 Hz (EN 10106 naming)
+
+  bool nonlinear() const { return static_cast<bool>(curve); }
+  // ν and dν/d(B²) at B² (T²).
+  void reluctivity(double b_squared, double& nu, double& dnu_db2) const;
+  double energy_density(double b_tesla) const;
+  double conductivity_at(double temperature_c) const;
 };
 
-const std::vector<MaterialEntry>& builtin_materials();
-const MaterialEntry* find_material(const std::string& name);
+const std::vector<Material>& builtin_materials();
+const Material* find_material(const std::string& name);
 
-// Each region's material must exist and suit the region (iron regions take a steel, coils and
-// bars a conductor). Throws InputError naming the [materials] key.
-void check_region_materials(const Case& c);
+// Materials of the machine's regions, looked up and checked for suitability (iron regions take
+// a steel, coils and bars a conductor). Throws InputError naming the [materials] key.
+struct RegionMaterials {
+  Material stator_iron, rotor_iron, coils, bars, shaft, air;
+};
+RegionMaterials resolve_region_materials(const Case& c);
 
 }  // namespace gapflux
