@@ -1,0 +1,40 @@
+#pragma once
+// Sparse symmetric positive-definite factorisation through CHOLMOD's supernodal LLᵀ (the only
+// file that sees CHOLMOD is sparse_cholesky.cpp). The symbolic analysis is done once per
+// sparsity pattern and reused by every numeric factorisation on it. Status is a value.
+#include <memory>
+#include <vector>
+
+namespace gapflux {
+
+enum class FactorStatus { ok, not_positive_definite, ill_conditioned, failed };
+
+struct FactorResult {
+  FactorStatus status = FactorStatus::ok;
+  int bad_column = -1;  // first column where a pivot was not positive
+  double rcond = 0.0;   // CHOLMOD's reciprocal condition estimate of the factor
+};
+
+class SparseCholesky {
+ public:
+  SparseCholesky();
+  ~SparseCholesky();
+  SparseCholesky(const SparseCholesky&) = delete;
+  SparseCholesky& operator=(const SparseCholesky&) = delete;
+
+  // Lower triangle in compressed columns. Re-analyses only if the pattern differs from the last.
+  // Returns true when a new analysis was made.
+  bool analyze(int n, const std::vector<int>& column_starts, const std::vector<int>& row_indices);
+  FactorResult factorize(const std::vector<double>& values);
+  // x = A⁻¹ b with the last factor.
+  void solve(const double* b, double* x) const;
+  int analyses() const { return analyses_; }
+  std::size_t factor_nonzeros() const;
+
+ private:
+  struct State;
+  std::unique_ptr<State> state_;
+  int analyses_ = 0;
+};
+
+}  // namespace gapflux

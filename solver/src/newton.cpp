@@ -1,0 +1,125 @@
+#include "solver/newton.hpp"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+
+namespace gapflux {
+namespace {
+
+double seconds_since(std::chrono::steady_clock::time_point t0) {
+  return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+}
+
+std::string history_text(const NewtonReport& r) {
+  std::string s;
+  for (const NewtonIteration& it : r.history)
+    s += fmt::format("\n  iteration {:2d}: residual {:.3e}, update {:.3e}, step {:.3g}",
+                     it.iteration, it.relative_residual, it.relative_update, it.step);
+  return s;
+}
+
+}  // namespace
+
+std::vector<std::pair<std::size_t, double>> worst_elements(const Assembler& assembler,
+                                                           const Eigen::VectorXd& x, int count) {
+  std::vector<std::pair<std::size_t, double>> all;
+  for (std::size_t e = 0; e < assembler.elements().size(); ++e) {
+    const Vec2 b = flux_density_at(assembler.elements()[e].nodes, assembler.local_values(e, x),
+                                   1.0 / 3.0, 1.0 / 3.0);
+    all.emplace_back(e, b.norm());
+  }
+  const std::size_t n = std::min<std::size_t>(count, all.size());
+  std::partial_sort(all.begin(), all.begin() + n, all.end(),
+                    [](const auto& a, const auto& b) { return a.second > b.second; });
+  all.resize(n);
+  return all;
+}
+
+NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const RegionModel& model,
+                          const NewtonSettings& settings, Eigen::VectorXd& x) {
+  NewtonReport report;
+  const int n = assembler.n_dofs();
+  if (x.size() != n) x = Eigen::VectorXd::Zero(n);
+  Eigen::VectorXd delta(n), trial(n);
+
+  const auto t_analyse = std::chrono::steady_clock::now();
+  report.analysed = cholesky.analyze(n, assembler.column_starts(), assembler.row_indices());
+  report.analyse_s = seconds_since(t_analyse);
+
+  double last_update = 1.0;
+  for (int it = 0;; ++it) {
+    NewtonIteration record;
+    record.iteration = it;
+    auto t0 = std::chrono::steady_clock::now();
+    assembler.assemble(x, model, true);
+    record.assembly_s = seconds_since(t0);
+    const double reference = std::max(assembler.load_norm(), 1e-300);
+    const double residual_norm = assembler.residual().norm();
+    record.relative_residual = residual_norm / reference;
+    report.relative_residual = record.relative_residual;
+    // No load at all: A = 0 is the answer.
+    if (assembler.load_norm() == 0.0 && residual_norm == 0.0) {
+      report.converged = true;
+      return report;
+    }
+    const bool converged = record.relative_residual < settings.residual_tolerance ||
+                           (last_update < settings.update_tolerance &&
+                            record.relative_residual < 100.0 * settings.residual_tolerance);
+    if (converged) {
+      report.converged = true;
+      return report;
+    }
+    if (it >= settings.max_iterations) {
+      report.history.push_back(record);
+      throw NumericalError(fmt::format("Newton did not converge in {} iterations (relative "
+                                       "residual {:.3e}, tolerance {:.1e}){}",
+                                       settings.max_iterations, record.relative_residual,
+                                       settings.residual_tolerance, history_text(report)),
+                           report);
+    }
+
+    t0 = std::chrono::steady_clock::now();
+    const FactorResult factor = cholesky.factorize(assembler.values());
+    record.factorize_s = seconds_since(t0);
+    if (factor.status != FactorStatus::ok) {
+      report.history.push_back(record);
+      const std::string why =
+          factor.status == FactorStatus::not_positive_definite
+              ? fmt::format("the Jacobian is not positive definite (pivot {} of {})",
+                            factor.bad_column, n)
+          : factor.status == FactorStatus::ill_conditioned
+              ? fmt::format(
+                    "the matrix is singular (condition estimate {:.1e}): the field has "
+                    "no fixed reference — is A = 0 applied anywhere?",
+                    factor.rcond)
+              : std::string("CHOLMOD failed to factorise the Jacobian");
+      throw NumericalError(why + history_text(report), report);
+    }
+    t0 = std::chrono::steady_clock::now();
+    const Eigen::VectorXd rhs = -assembler.residual();
+    cholesky.solve(rhs.data(), delta.data());
+    record.solve_s = seconds_since(t0);
+    ++report.iterations;
+
+    // Backtracking: halve the step until the residual falls (Armijo-like on ‖r‖).
+    double step = 1.0;
+    for (int h = 0; h < settings.max_halvings; ++h) {
+      trial = x + step * delta;
+      const auto t_ls = std::chrono::steady_clock::now();
+      assembler.assemble(trial, model, false);
+      record.assembly_s += seconds_since(t_ls);
+      if (assembler.residual().norm() <= (1.0 - 1e-4 * step) * residual_norm) break;
+      step *= 0.5;
+    }
+    x += step * delta;
+    record.step = step;
+    last_update = step * delta.norm() / std::max(x.norm(), 1e-300);
+    record.relative_update = last_update;
+    report.history.push_back(record);
+  }
+}
+
+}  // namespace gapflux

@@ -1,0 +1,98 @@
+#include "solver/sparse_cholesky.hpp"
+
+#include <cholmod.h>
+
+#include <algorithm>
+#include <cstring>
+#include <stdexcept>
+
+namespace gapflux {
+
+struct SparseCholesky::State {
+  cholmod_common common;
+  cholmod_sparse* matrix = nullptr;
+  cholmod_factor* factor = nullptr;
+  std::vector<int> col, row;
+  State() {
+    cholmod_start(&common);
+    common.supernodal = CHOLMOD_SUPERNODAL;
+    common.print = 0;
+    common.quick_return_if_not_posdef = 1;
+  }
+  ~State() {
+    if (factor) cholmod_free_factor(&factor, &common);
+    if (matrix) cholmod_free_sparse(&matrix, &common);
+    cholmod_finish(&common);
+  }
+};
+
+SparseCholesky::SparseCholesky() : state_(std::make_unique<State>()) {}
+SparseCholesky::~SparseCholesky() = default;
+
+bool SparseCholesky::analyze(int n, const std::vector<int>& column_starts,
+                             const std::vector<int>& row_indices) {
+  State& s = *state_;
+  if (s.matrix && s.col == column_starts && s.row == row_indices) return false;
+  if (s.factor) cholmod_free_factor(&s.factor, &s.common);
+  if (s.matrix) cholmod_free_sparse(&s.matrix, &s.common);
+  s.col = column_starts;
+  s.row = row_indices;
+  const std::size_t nnz = row_indices.size();
+  // stype −1: the lower triangle holds the symmetric matrix.
+  s.matrix = cholmod_allocate_sparse(n, n, nnz, 1, 1, -1, CHOLMOD_REAL, &s.common);
+  if (!s.matrix) throw std::runtime_error("CHOLMOD could not allocate the matrix");
+  std::memcpy(s.matrix->p, column_starts.data(), sizeof(int) * (n + 1));
+  std::memcpy(s.matrix->i, row_indices.data(), sizeof(int) * nnz);
+  s.factor = cholmod_analyze(s.matrix, &s.common);
+  if (!s.factor) throw std::runtime_error("CHOLMOD's symbolic analysis failed");
+  ++analyses_;
+  return true;
+}
+
+FactorResult SparseCholesky::factorize(const std::vector<double>& values) {
+  State& s = *state_;
+  std::memcpy(s.matrix->x, values.data(), sizeof(double) * values.size());
+  FactorResult r;
+  cholmod_factorize(s.matrix, s.factor, &s.common);
+  if (s.common.status == CHOLMOD_NOT_POSDEF) {
+    r.status = FactorStatus::not_positive_definite;
+    r.bad_column = static_cast<int>(s.factor->minor);
+    return r;
+  }
+  if (s.common.status < CHOLMOD_OK) {
+    r.status = FactorStatus::failed;
+    return r;
+  }
+  r.rcond = cholmod_rcond(s.factor, &s.common);
+  // A matrix that is singular in exact arithmetic (a floating potential) factors with a pivot
+  // at rounding level: its condition estimate falls to the order of machine epsilon.
+  if (!(r.rcond > 1e-14)) r.status = FactorStatus::ill_conditioned;
+  return r;
+}
+
+void SparseCholesky::solve(const double* b, double* x) const {
+  State& s = *state_;
+  const int n = static_cast<int>(s.matrix->nrow);
+  cholmod_dense* rhs = cholmod_allocate_dense(n, 1, n, CHOLMOD_REAL, &s.common);
+  std::memcpy(rhs->x, b, sizeof(double) * n);
+  cholmod_dense* sol = cholmod_solve(CHOLMOD_A, s.factor, rhs, &s.common);
+  std::memcpy(x, sol->x, sizeof(double) * n);
+  cholmod_free_dense(&sol, &s.common);
+  cholmod_free_dense(&rhs, &s.common);
+}
+
+std::size_t SparseCholesky::factor_nonzeros() const {
+  const cholmod_factor* f = state_->factor;
+  if (!f) return 0;
+  if (f->is_super) {
+    std::size_t total = 0;
+    const int* super = static_cast<const int*>(f->super);
+    const int* pi = static_cast<const int*>(f->pi);
+    for (std::size_t k = 0; k < f->nsuper; ++k)
+      total += static_cast<std::size_t>(super[k + 1] - super[k]) * (pi[k + 1] - pi[k]);
+    return total;
+  }
+  return static_cast<std::size_t>(static_cast<const int*>(f->p)[f->n]);
+}
+
+}  // namespace gapflux
