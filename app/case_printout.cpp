@@ -117,6 +117,29 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
     fmt::print(out, "rotor_yoke_height_mm = {:.4f}\n",
                (lam.bar.bar_bottom_radius_m - lam.shaft_radius_m) / mm);
   }
+  const WindingLayout& lay = lam.winding;
+  fmt::print(out, "series_turns_per_phase = {:g}\n", lay.series_turns_per_phase);
+  fmt::print(out, "phase_axes_mech_deg = [{:.3f}, {:.3f}, {:.3f}]  # a, b, c magnetic axes\n",
+             lay.phase_axis_el_rad[0] * to_deg / lay.pole_pairs,
+             lay.phase_axis_el_rad[1] * to_deg / lay.pole_pairs,
+             lay.phase_axis_el_rad[2] * to_deg / lay.pole_pairs);
+  fmt::print(out, "\n# winding factors (electrical space-harmonic order)\n");
+  fmt::print(out, "# {:>6} {:>8} {:>8} {:>8}\n", "order", "kd", "kp", "kw");
+  for (const WindingFactor& f : lay.factors)
+    fmt::print(out, "# {:>6g} {:>8.5f} {:>8.5f} {:>8.5f}{}\n", f.order, f.kd, f.kp, f.kw,
+               f.slot_harmonic ? "  slot harmonic" : "");
+  fmt::print(
+      out, "\n# slot table: slot, layer, phase and sign (+: positive current out of the plane)\n");
+  for (int k = 0; k < lay.slots; ++k) {
+    std::string row = fmt::format("# s{:02d}", k + 1);
+    for (int l = 0; l < lay.layers; ++l) {
+      const CoilSide& side = lay.side(k, l);
+      row += fmt::format("  {}{}{}", lay.layers == 2 ? (l == 0 ? "top " : "bottom ") : "",
+                         phase_name(side.phase), side.sign > 0 ? "+" : "-");
+    }
+    fmt::print(out, "{}\n", row);
+  }
+  fmt::print(out, "\n");
   fmt::print(out,
              "symmetry = \"{}\"  # {} of {} sector(s), {:.4f}°, {} slot(s) and {} bar(s) each\n",
              sym.sectors == 1 ? "full" : (sym.antiperiodic ? "antiperiodic" : "periodic"), 1,

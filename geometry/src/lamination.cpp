@@ -46,6 +46,22 @@ SectorSymmetry choose_symmetry(int slots, int bars, int poles, bool force_full) 
   return s;
 }
 
+SectorSymmetry choose_symmetry(int slots, int bars, int poles, bool force_full,
+                               const WindingLayout& winding) {
+  const SectorSymmetry widest = choose_symmetry(slots, bars, poles, force_full);
+  for (int n = widest.sectors; n > 1; --n) {
+    if (widest.sectors % n != 0) continue;
+    SectorSymmetry s = widest;
+    s.sectors = n;
+    s.sector_angle_rad = two_pi / n;
+    s.antiperiodic = ((poles / n) % 2) == 1;
+    s.slots_in_sector = slots / n;
+    s.bars_in_sector = bars / n;
+    if (winding.repeats(s.slots_in_sector, s.antiperiodic)) return s;
+  }
+  return choose_symmetry(slots, bars, poles, true);
+}
+
 int stator_tooth_at(double theta_rad, int slots) {
   const double pitch = two_pi / slots;
   const long k = std::lround(theta_rad / pitch);
@@ -133,7 +149,9 @@ Lamination build_lamination(const Case& c) {
   lam.band_inner_radius_m = lam.rotor_outer_radius_m + gap / 3.0;
   lam.band_outer_radius_m = lam.rotor_outer_radius_m + 2.0 * gap / 3.0;
 
-  lam.symmetry = choose_symmetry(lam.slots, lam.bars, lam.poles, c.mesh.symmetry == Symmetry::full);
+  lam.winding = build_winding_layout(c);
+  lam.symmetry = choose_symmetry(lam.slots, lam.bars, lam.poles, c.mesh.symmetry == Symmetry::full,
+                                 lam.winding);
   const SectorSymmetry& sym = lam.symmetry;
 
   // Stator: iron ring, then each slot of the sector rotated into place.

@@ -9,6 +9,7 @@
 
 #include "cases/case.hpp"
 #include "geometry/outline.hpp"
+#include "geometry/winding_layout.hpp"
 
 namespace gapflux {
 
@@ -87,6 +88,7 @@ struct Lamination {
   SectorSymmetry symmetry;
   SlotDimensions slot;
   BarDimensions bar;
+  WindingLayout winding;
   std::vector<Piece> pieces;
 
   double airgap_m() const { return bore_radius_m - rotor_outer_radius_m; }
@@ -100,6 +102,9 @@ Lamination build_lamination(const Case& c);
 
 // The symmetry that the slot count, the bar count (0 for a smooth rotor) and the pole count share.
 SectorSymmetry choose_symmetry(int slots, int bars, int poles, bool force_full);
+// The largest such sector over which the winding layout also repeats (with the sector's sign).
+SectorSymmetry choose_symmetry(int slots, int bars, int poles, bool force_full,
+                               const WindingLayout& winding);
 
 // Stator tooth whose centre is nearest to angle θ (stator frame), 0-based.
 int stator_tooth_at(double theta_rad, int slots);
