@@ -2,6 +2,7 @@
 
 #include <fmt/format.h>
 
+#include <omp.h>
 #include <filesystem>
 #include <iostream>
 
@@ -12,6 +13,7 @@
 #include "geometry/moving_band.hpp"
 #include "materials/library.hpp"
 #include "postproc/vtu_writer.hpp"
+#include "static_study.hpp"
 
 namespace gapflux {
 namespace {
@@ -55,12 +57,18 @@ int command_mesh(const std::string& case_path, const std::string& out_dir, const
   return 0;
 }
 
-int command_run(const std::string& case_path, const std::string&, const CommonOptions&) {
-  prepare(case_path);
-  fmt::print(stderr,
-             "gapflux run: not yet: this version validates and meshes cases (gapflux check, "
-             "gapflux mesh); the field solver arrives in a later version\n");
-  return 1;
+int command_run(const std::string& case_path, const std::string& out_dir,
+                const CommonOptions& options) {
+  if (options.threads > 0) omp_set_num_threads(options.threads);
+  StaticStudy study(case_path, out_dir);
+  try {
+    study.run();
+  } catch (const NumericalError& e) {
+    fmt::print(stderr, "gapflux: numerical failure: {}\n(what was computed is saved in {})\n",
+               e.what(), out_dir);
+    return 3;
+  }
+  return 0;
 }
 
 }  // namespace gapflux

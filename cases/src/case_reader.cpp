@@ -358,6 +358,16 @@ StudySpec parse_study(std::optional<TableReader> t) {
   return s;
 }
 
+SolverSpec parse_solver(std::optional<TableReader> t) {
+  SolverSpec s;
+  if (!t) return s;
+  s.max_iterations = integer_in(*t, "max_iterations", 30, 1, 1000);
+  s.residual_tolerance = number_in(*t, "residual_tolerance", 1e-8, 1e-15, 1e-2, "");
+  s.update_tolerance = number_in(*t, "update_tolerance", 1e-8, 1e-15, 1e-2, "");
+  t->finish();
+  return s;
+}
+
 OutputSpec parse_output(std::optional<TableReader> t) {
   OutputSpec o;
   if (!t) return o;
@@ -385,6 +395,7 @@ Case read_case_text(std::string_view text, const std::string& file_name) {
   c.supply = parse_supply(required_table(root, "supply", "at least rms_a"));
   c.mesh = parse_mesh(root.table("mesh"));
   c.study = parse_study(root.table("study"));
+  c.solver = parse_solver(root.table("solver"));
   c.output = parse_output(root.table("output"));
   root.finish();
   return c;

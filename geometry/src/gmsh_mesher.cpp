@@ -377,6 +377,24 @@ Mesh mesh_lamination(const Lamination& lam, const MeshSettings& settings) {
       (std::pow(lam.band_outer_radius_m, 2) - std::pow(lam.band_inner_radius_m, 2));
   (void)band_region;
 
+  // Keep only nodes that triangles use: Gmsh also meshes construction points (arc centres).
+  {
+    std::vector<int> new_index(mesh.nodes.size(), -1);
+    std::vector<Vec2> kept;
+    std::vector<char> kept_rotor;
+    for (int& n : mesh.triangles) {
+      if (new_index[n] < 0) {
+        new_index[n] = static_cast<int>(kept.size());
+        kept.push_back(mesh.nodes[n]);
+        kept_rotor.push_back(mesh.node_on_rotor[n]);
+      }
+      n = new_index[n];
+    }
+    mesh.nodes = std::move(kept);
+    mesh.node_on_rotor = std::move(kept_rotor);
+    for (auto& [tag, index] : index_of) index = index >= 0 ? new_index[index] : -1;
+  }
+
   // Band rings: vertices at multiples of the pitch, mid-edge nodes halfway.
   const auto collect_ring = [&](const std::vector<int>& ring_curves, double radius,
                                 BandRing& ring) {

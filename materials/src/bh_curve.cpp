@@ -54,14 +54,14 @@ BHCurve::BHCurve(std::vector<double> h_a_per_m, std::vector<double> b_tesla)
   slope_[0] = secant[0];
   slope_[n - 1] = secant[n - 2];
   for (std::size_t i = 1; i + 1 < n; ++i) slope_[i] = 0.5 * (secant[i - 1] + secant[i]);
+  // The last point's slope is that of the extension, dH/dB = 1/μ0, so that the curve is C¹
+  // there (Newton keeps its quadratic rate across the end of the table); Fritsch and Carlson's
+  // box condition (slopes at most 3× the segment's secant) keeps every cubic monotone.
+  slope_[n - 1] = 1.0 / mu0;
   for (std::size_t i = 0; i + 1 < n; ++i) {
-    const double a = slope_[i] / secant[i], b = slope_[i + 1] / secant[i];
-    const double r = a * a + b * b;
-    if (r > 9.0) {
-      const double tau = 3.0 / std::sqrt(r);
-      slope_[i] = tau * a * secant[i];
-      slope_[i + 1] = tau * b * secant[i];
-    }
+    slope_[i] = std::min(slope_[i], 3.0 * secant[i]);
+    slope_[i + 1] = std::min(slope_[i + 1], 3.0 * secant[i]);
+    if (i > 0) slope_[i] = std::min(slope_[i], 3.0 * secant[i - 1]);
   }
   j_sat_ = b_.back() - mu0 * h_.back();
   if (j_sat_ < 0.0)

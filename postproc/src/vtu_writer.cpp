@@ -2,14 +2,17 @@
 
 #include <vtkCellArray.h>
 #include <vtkCellData.h>
+#include <vtkDoubleArray.h>
 #include <vtkFieldData.h>
 #include <vtkIntArray.h>
 #include <vtkNew.h>
+#include <vtkPointData.h>
 #include <vtkPoints.h>
 #include <vtkUnsignedCharArray.h>
 #include <vtkUnstructuredGrid.h>
 #include <vtkXMLUnstructuredGridWriter.h>
 
+#include <fstream>
 #include <stdexcept>
 
 namespace gapflux {
@@ -81,6 +84,68 @@ void write_mesh_vtu(const std::string& path, const Mesh& mesh, const BandMesh* b
   writer->SetInputData(grid);
   writer->SetDataModeToBinary();
   if (writer->Write() != 1) throw std::runtime_error("cannot write " + path);
+}
+
+}  // namespace gapflux
+
+namespace gapflux {
+
+void write_fields_vtu(const std::string& path, int order, const FieldSnapshot& s) {
+  const int per = order == 1 ? 3 : 6;
+  const int cell_type = order == 1 ? VTK_TRIANGLE : VTK_QUADRATIC_TRIANGLE;
+  vtkNew<vtkPoints> points;
+  points->SetDataTypeToDouble();
+  vtkNew<vtkDoubleArray> a;
+  a->SetName("A");
+  vtkNew<vtkUnstructuredGrid> grid;
+  const auto& elements = *s.elements;
+  grid->Allocate(static_cast<vtkIdType>(elements.size()));
+  // Corners get points of their own: band and mesh triangles alike, no shared-node bookkeeping.
+  for (std::size_t e = 0; e < elements.size(); ++e) {
+    vtkIdType ids[6];
+    for (int i = 0; i < per; ++i) {
+      const Vec2& p = elements[e].nodes.x[i];
+      ids[i] = points->InsertNextPoint(p.x(), p.y(), 0.0);
+      a->InsertNextValue(s.corner_values[e][i]);
+    }
+    grid->InsertNextCell(cell_type, per, ids);
+  }
+  grid->SetPoints(points);
+  grid->GetPointData()->AddArray(a);
+  const auto add_cell = [&](const char* name, const std::vector<double>& values) {
+    vtkNew<vtkDoubleArray> arr;
+    arr->SetName(name);
+    for (double v : values) arr->InsertNextValue(v);
+    grid->GetCellData()->AddArray(arr);
+  };
+  std::vector<double> bx, by;
+  for (const Vec2& b : s.b_tesla) {
+    bx.push_back(b.x());
+    by.push_back(b.y());
+  }
+  add_cell("Bx", bx);
+  add_cell("By", by);
+  add_cell("B_abs", s.b_abs_tesla);
+  add_cell("mu_r", s.mu_r);
+  vtkNew<vtkIntArray> region;
+  region->SetName("region_id");
+  for (int r : s.region_id) region->InsertNextValue(r);
+  grid->GetCellData()->AddArray(region);
+  vtkNew<vtkXMLUnstructuredGridWriter> writer;
+  writer->SetFileName(path.c_str());
+  writer->SetInputData(grid);
+  writer->SetDataModeToBinary();
+  if (writer->Write() != 1) throw std::runtime_error("cannot write " + path);
+}
+
+void write_pvd(const std::string& path, const std::vector<std::pair<double, std::string>>& files) {
+  std::ofstream out(path);
+  out << "<?xml version=\"1.0\"?>\n<VTKFile type=\"Collection\" version=\"0.1\">\n  <Collection>\n";
+  out.precision(17);
+  for (const auto& [time, file] : files)
+    out << "    <DataSet timestep=\"" << time << "\" part=\"0\" file=\"" << file << "\"/>\n";
+  out << "  </Collection>\n</VTKFile>\n";
+  if (!out) throw std::runtime_error("cannot write " + path);
 }
 
 }  // namespace gapflux

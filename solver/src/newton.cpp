@@ -50,7 +50,7 @@ NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const 
   report.analyse_s = seconds_since(t_analyse);
 
   double last_update = 1.0;
-  for (int it = 0;; ++it) {
+  for (int it = static_cast<int>(report.history.size());; ++it) {
     NewtonIteration record;
     record.iteration = it;
     auto t0 = std::chrono::steady_clock::now();
@@ -104,15 +104,44 @@ NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const 
     record.solve_s = seconds_since(t0);
     ++report.iterations;
 
-    // Backtracking: halve the step until the residual falls (Armijo-like on ‖r‖).
+    // Line search on the energy functional, which is convex along δ: its slope there is
+    // g(α) = r(x + αδ)·δ, negative at α = 0. Bracket its zero, then find it by regula falsi
+    // (Illinois variant) to within a tenth of |g(0)|; a full step that lands there is kept.
     double step = 1.0;
-    for (int h = 0; h < settings.max_halvings; ++h) {
-      trial = x + step * delta;
+    const double g0 = assembler.residual().dot(delta);
+    const auto slope = [&](double alpha) {
+      trial = x + alpha * delta;
       const auto t_ls = std::chrono::steady_clock::now();
       assembler.assemble(trial, model, false);
       record.assembly_s += seconds_since(t_ls);
-      if (assembler.residual().norm() <= (1.0 - 1e-4 * step) * residual_norm) break;
-      step *= 0.5;
+      return assembler.residual().dot(delta);
+    };
+    // Bracket the minimum: the step may also be too short (iron coming down from deep
+    // saturation, where the tangent overestimates the curvature), so expand up to 8×.
+    double a = 0.0, fa = g0, b = 1.0, fb = g0 < 0.0 ? slope(1.0) : 0.0;
+    while (g0 < 0.0 && fb < 0.0 && b < 8.0) {
+      a = b, fa = fb;
+      b *= 2.0;
+      fb = slope(b);
+    }
+    step = b;
+    if (g0 < 0.0 && fb > 0.0 && std::abs(fb) > 0.1 * std::abs(g0)) {
+      int side = 0;
+      for (int h = 0; h < settings.max_halvings; ++h) {
+        const double c = (a * fb - b * fa) / (fb - fa);
+        const double fc = slope(c);
+        step = c;
+        if (std::abs(fc) <= 0.1 * std::abs(g0)) break;
+        if (fc > 0.0) {
+          b = c, fb = fc;
+          if (side == -1) fa *= 0.5;
+          side = -1;
+        } else {
+          a = c, fa = fc;
+          if (side == +1) fb *= 0.5;
+          side = +1;
+        }
+      }
     }
     x += step * delta;
     record.step = step;

@@ -136,6 +136,12 @@ struct StudySpec {
   double time_s = 0.0;
 };
 
+struct SolverSpec {
+  int max_iterations = 30;
+  double residual_tolerance = 1e-8;  // ‖r‖/‖f‖
+  double update_tolerance = 1e-8;    // ‖δ‖/‖A‖
+};
+
 struct OutputSpec {
   int fields_every = 1;
   int airgap_samples = 0;  // 0 until resolved: from the band nodes
@@ -151,6 +157,7 @@ struct Case {
   SupplySpec supply;
   MeshSpec mesh;
   StudySpec study;
+  SolverSpec solver;
   OutputSpec output;
   SourceMap sources;
 };

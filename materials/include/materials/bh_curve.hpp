@@ -1,8 +1,9 @@
 #pragma once
 // A magnetisation curve: a B–H table turned into a monotone piecewise-cubic H(B) (Fritsch–Carlson
 // 1980, so no overshoot between points), extended beyond the last point as B = μ0·H + J_sat
-// (slope μ0). The solver asks for the reluctivity ν = H/B as a function of B² and its
-// derivative dν/d(B²) (design.md §2); energy densities come from the same curve.
+// (slope μ0), with the cubic's end slope matched to it where the box condition allows (C¹). The
+// solver asks for the reluctivity ν = H/B as a function of B² and its derivative dν/d(B²)
+// (design.md §2); energy densities come from the same curve.
 #include <string>
 #include <vector>
 

@@ -4,6 +4,7 @@
 
 #include "geometry/mesh.hpp"
 #include "geometry/moving_band.hpp"
+#include "solver/assembly.hpp"
 
 namespace gapflux {
 
@@ -14,5 +15,24 @@ namespace gapflux {
 // Rotor-side nodes are drawn turned by the band's rotor angle. Throws std::runtime_error on I/O
 // failure.
 void write_mesh_vtu(const std::string& path, const Mesh& mesh, const BandMesh* band);
+
+}  // namespace gapflux
+
+namespace gapflux {
+
+// One field snapshot: the mesh and band triangles of the assembler (rotor side at its angle),
+// A at every corner as point data "A" (Wb/m), and per cell "Bx", "By", "B_abs" (T), "mu_r"
+// (differential relative permeability), "region_id".
+struct FieldSnapshot {
+  const std::vector<ElementRecord>* elements = nullptr;
+  std::vector<LocalVector> corner_values;  // A at each element's nodes
+  std::vector<Vec2> b_tesla;
+  std::vector<double> b_abs_tesla, mu_r;
+  std::vector<int> region_id;
+};
+void write_fields_vtu(const std::string& path, int order, const FieldSnapshot& snapshot);
+
+// A ParaView-style collection file listing (time, file) pairs; files relative to the .pvd.
+void write_pvd(const std::string& path, const std::vector<std::pair<double, std::string>>& files);
 
 }  // namespace gapflux

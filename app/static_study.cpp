@@ -1,0 +1,240 @@
+#include "static_study.hpp"
+
+#include <fmt/format.h>
+
+#include <chrono>
+#include <cmath>
+#include <filesystem>
+#include <numbers>
+
+#include "cases/case_reader.hpp"
+#include "postproc/field_evaluation.hpp"
+#include "postproc/results_file.hpp"
+#include "postproc/summary.hpp"
+#include "postproc/vtu_writer.hpp"
+
+namespace gapflux {
+namespace {
+
+double now_s() {
+  return std::chrono::duration<double>(std::chrono::steady_clock::now().time_since_epoch()).count();
+}
+
+}  // namespace
+
+const Material& material_of(RegionKind kind, const RegionMaterials& m) {
+  switch (kind) {
+    case RegionKind::stator_iron:
+      return m.stator_iron;
+    case RegionKind::rotor_iron:
+      return m.rotor_iron;
+    case RegionKind::coil_side:
+      return m.coils;
+    case RegionKind::bar:
+      return m.bars;
+    case RegionKind::shaft:
+      return m.shaft;
+    default:
+      return m.air;
+  }
+}
+
+StaticStudy::StaticStudy(std::string case_path, std::string out_dir)
+    : case_path_(std::move(case_path)), out_dir_(std::move(out_dir)) {}
+
+void StaticStudy::run() {
+  wall_start_s_ = now_s();
+  set_up();
+  try {
+    solve();
+  } catch (const NumericalError& e) {
+    report_ = e.report();
+    write_output(e.what());
+    throw;
+  }
+  write_output("");
+}
+
+void StaticStudy::set_up() {
+  case_ = read_case_file(case_path_);
+  materials_ = resolve_region_materials(case_);
+  lamination_ = build_lamination(case_);
+  mesh_settings_ = resolve_mesh_settings(case_, lamination_);
+  mesh_ = mesh_lamination(lamination_, mesh_settings_);
+  band_ = build_moving_band(mesh_, case_.study.rotor_angle_rad);
+  dofs_ = build_dof_map(mesh_);
+
+  // Supply at the instant: i_k = √2·I_k·cos(ωt + φ_k).
+  const double omega = 2.0 * std::numbers::pi * case_.supply.frequency_hz;
+  for (int k = 0; k < 3; ++k)
+    phase_current_a_[k] = std::sqrt(2.0) * case_.supply.phases[k].rms_a *
+                          std::cos(omega * case_.study.time_s + case_.supply.phases[k].angle_rad);
+
+  coils_ = coil_regions(mesh_, lamination_.winding);
+  const std::vector<double> j = region_current_density(coils_, phase_current_a_);
+  model_.material.clear();
+  model_.source.clear();
+  for (std::size_t r = 0; r < mesh_.regions.size(); ++r) {
+    model_.material.push_back(&material_of(mesh_.regions[r].tag.kind, materials_));
+    ElementSource s;
+    s.constant_a_per_m2 = j[r];
+    model_.source.push_back(s);
+  }
+  assembler_ = std::make_unique<Assembler>(build_element_records(mesh_, &band_, dofs_),
+                                           total_dofs(dofs_, &band_));
+  x_ = Eigen::VectorXd::Zero(assembler_->n_dofs());
+}
+
+void StaticStudy::solve() {
+  NewtonSettings settings;
+  settings.max_iterations = case_.solver.max_iterations;
+  settings.residual_tolerance = case_.solver.residual_tolerance;
+  settings.update_tolerance = case_.solver.update_tolerance;
+  report_ = solve_newton(*assembler_, cholesky_, model_, settings, x_);
+}
+
+void StaticStudy::write_output(const std::string& failure) {
+  namespace fs = std::filesystem;
+  fs::create_directories(fs::path(out_dir_) / "fields");
+  const ElementFields fields = evaluate_element_fields(*assembler_, x_, model_);
+  const int sectors = mesh_.symmetry.sectors;
+  const double stack = case_.machine.stack_length_m;
+  const auto energies =
+      region_energies(*assembler_, x_, model_, mesh_.regions.size(), stack, sectors);
+  const int n_samples =
+      case_.output.airgap_samples > 0 ? case_.output.airgap_samples : default_airgap_samples(mesh_);
+  const AirgapSamples airgap = sample_airgap(*assembler_, x_, mesh_, n_samples);
+  const auto psi = phase_flux_linkage(*assembler_, x_, coils_, stack, sectors);
+  const std::vector<double> a_nodes = nodal_potential(mesh_, dofs_, x_);
+  const MeshQuality quality = mesh_quality(mesh_);
+
+  // results.h5
+  {
+    ResultsFile h5((fs::path(out_dir_) / "results.h5").string());
+    h5.attribute("/", "schema", std::string("gapflux-results/1"));
+    h5.attribute("/", "case_name", case_.machine.name);
+    h5.attribute("/", "converged", static_cast<long>(failure.empty()));
+    h5.attribute("/", "steps_done", static_cast<long>(failure.empty() ? 1 : 0));
+    std::vector<double> nodes;
+    for (const Vec2& p : mesh_.nodes) nodes.insert(nodes.end(), {p.x(), p.y()});
+    h5.write("mesh/nodes", nodes, "m", 2);
+    h5.write("mesh/triangles", mesh_.triangles, "1", mesh_.nodes_per_triangle());
+    std::vector<int> region_ids, triangle_region,
+        on_rotor(mesh_.node_on_rotor.begin(), mesh_.node_on_rotor.end());
+    std::vector<std::string> names;
+    for (const MeshRegion& r : mesh_.regions) {
+      region_ids.push_back(r.id);
+      names.push_back(r.name);
+    }
+    for (int r : mesh_.triangle_region) triangle_region.push_back(mesh_.regions[r].id);
+    h5.write("mesh/region_ids", region_ids, "1");
+    h5.write_strings("mesh/region_names", names);
+    h5.write("mesh/triangle_region", triangle_region, "1");
+    h5.write("mesh/node_on_rotor", on_rotor, "1");
+    h5.attribute("mesh", "order", static_cast<long>(mesh_.order));
+    h5.attribute("mesh", "sectors", static_cast<long>(sectors));
+    h5.attribute("mesh", "antiperiodic", static_cast<long>(mesh_.symmetry.antiperiodic));
+    h5.attribute("mesh", "rotor_angle_rad", case_.study.rotor_angle_rad);
+    h5.write("field/A", a_nodes, "Wb/m");
+    const std::size_t n_tri = mesh_.n_triangles();
+    std::vector<double> b, b_abs, mu_r;
+    for (std::size_t t = 0; t < n_tri; ++t) {
+      b.insert(b.end(), {fields.b_tesla[t].x(), fields.b_tesla[t].y()});
+      b_abs.push_back(fields.b_abs_tesla[t]);
+      mu_r.push_back(fields.mu_r_differential[t]);
+    }
+    h5.write("field/B", b, "T", 2);
+    h5.write("field/B_abs", b_abs, "T");
+    h5.write("field/mu_r_differential", mu_r, "1");
+    h5.write("field/region", triangle_region, "1");
+    h5.write("airgap/theta", airgap.theta_rad, "rad");
+    h5.write("airgap/B_r", airgap.b_r_tesla, "T");
+    h5.write("airgap/B_theta", airgap.b_theta_tesla, "T");
+    h5.attribute("airgap/theta", "radius_m", airgap.radius_m);
+    h5.write("winding/phase_current",
+             std::vector<double>(phase_current_a_.begin(), phase_current_a_.end()), "A");
+    h5.write("winding/flux_linkage", std::vector<double>(psi.begin(), psi.end()), "Wb");
+    std::vector<double> energy, coenergy;
+    for (const RegionEnergy& e : energies) {
+      energy.push_back(e.energy_j);
+      coenergy.push_back(e.coenergy_j);
+    }
+    h5.write("energy/region_energy", energy, "J");
+    h5.write("energy/region_coenergy", coenergy, "J");
+    std::vector<double> history;
+    for (const NewtonIteration& it : report_.history) history.push_back(it.relative_residual);
+    h5.write("solver/relative_residual", history, "1");
+    h5.flush();
+  }
+
+  // fields.pvd + fields/step_00000.vtu
+  {
+    FieldSnapshot snap;
+    snap.elements = &assembler_->elements();
+    for (std::size_t e = 0; e < snap.elements->size(); ++e) {
+      snap.corner_values.push_back(assembler_->local_values(e, x_));
+      snap.region_id.push_back(mesh_.regions[(*snap.elements)[e].region].id);
+    }
+    snap.b_tesla = fields.b_tesla;
+    snap.b_abs_tesla = fields.b_abs_tesla;
+    snap.mu_r = fields.mu_r_differential;
+    write_fields_vtu((fs::path(out_dir_) / "fields" / "step_00000.vtu").string(), mesh_.order,
+                     snap);
+    write_pvd((fs::path(out_dir_) / "fields.pvd").string(),
+              {{case_.study.time_s, "fields/step_00000.vtu"}});
+  }
+
+  // summary.json
+  RunSummary s;
+  s.case_name = case_.machine.name;
+  s.vertices = quality.vertices;
+  s.triangles = quality.triangles;
+  s.order = mesh_.order;
+  s.dofs = static_cast<std::size_t>(assembler_->n_dofs());
+  s.min_angle_deg = quality.min_angle_deg;
+  s.sectors = sectors;
+  s.antiperiodic = mesh_.symmetry.antiperiodic;
+  const WindingLayout& w = lamination_.winding;
+  s.slots = w.slots;
+  s.poles = 2 * w.pole_pairs;
+  s.layers = w.layers;
+  s.coil_pitch_slots = w.coil_pitch_slots;
+  s.factors = w.factors;
+  s.series_turns_per_phase = w.series_turns_per_phase;
+  s.frequency_hz = case_.supply.frequency_hz;
+  s.time_s = case_.study.time_s;
+  s.rotor_angle_deg = case_.study.rotor_angle_rad * 180.0 / std::numbers::pi;
+  s.phase_current_a = phase_current_a_;
+  s.flux_linkage_wb = psi;
+  for (const RegionEnergy& e : energies) {
+    s.energy_j += e.energy_j;
+    s.coenergy_j += e.coenergy_j;
+  }
+  s.airgap_radius_m = airgap.radius_m;
+  for (std::size_t t = 0; t < mesh_.n_triangles(); ++t)
+    s.b_peak_tesla = std::max(s.b_peak_tesla, fields.b_abs_tesla[t]);
+  s.steps = failure.empty() ? 1 : 0;
+  s.newton_iterations = report_.iterations;
+  s.converged = failure.empty();
+  s.wall_s = now_s() - wall_start_s_;
+  for (const NewtonIteration& it : report_.history) {
+    s.residual_history.push_back(it.relative_residual);
+    s.step_history.push_back(it.step);
+  }
+  s.failure = failure;
+  write_summary_json((fs::path(out_dir_) / "summary.json").string(), s);
+
+  fmt::print("case: {}\n", case_.machine.name);
+  fmt::print("mesh: order {}, {} triangles, {} dofs, sector 1 of {}\n", mesh_.order,
+             quality.triangles, assembler_->n_dofs(), sectors);
+  fmt::print("newton: {} iteration(s), relative residual {:.2e}{}\n", report_.iterations,
+             report_.relative_residual, failure.empty() ? "" : " (not converged)");
+  fmt::print(
+      "currents a/b/c: {:.3f} {:.3f} {:.3f} A; flux linkage a/b/c: {:.5f} {:.5f} {:.5f} Wb\n",
+      phase_current_a_[0], phase_current_a_[1], phase_current_a_[2], psi[0], psi[1], psi[2]);
+  fmt::print("peak |B| {:.3f} T; stored energy {:.3f} J, co-energy {:.3f} J\n", s.b_peak_tesla,
+             s.energy_j, s.coenergy_j);
+  fmt::print("wrote {}/results.h5, fields.pvd, summary.json\n", out_dir_);
+}
+
+}  // namespace gapflux

@@ -1,0 +1,56 @@
+#pragma once
+// One static (one-instant) study: the case's rotor fixed at its angle, the winding currents at
+// the case's instant, the nonlinear field solved, the results written. run() shows the steps:
+// set up, solve, write output. The object owns everything the run needs.
+#include <Eigen/Core>
+#include <array>
+#include <memory>
+#include <string>
+
+#include "cases/case.hpp"
+#include "geometry/lamination.hpp"
+#include "geometry/mesh.hpp"
+#include "geometry/mesher.hpp"
+#include "geometry/moving_band.hpp"
+#include "materials/library.hpp"
+#include "solver/assembly.hpp"
+#include "solver/dof_map.hpp"
+#include "solver/newton.hpp"
+#include "solver/sparse_cholesky.hpp"
+#include "solver/winding_sources.hpp"
+
+namespace gapflux {
+
+class StaticStudy {
+ public:
+  StaticStudy(std::string case_path, std::string out_dir);
+  // Throws InputError (bad input) or NumericalError (after writing what exists).
+  void run();
+
+ private:
+  void set_up();
+  void solve();
+  void write_output(const std::string& failure);
+
+  std::string case_path_, out_dir_;
+  Case case_;
+  Lamination lamination_;
+  MeshSettings mesh_settings_;
+  Mesh mesh_;
+  BandMesh band_;
+  DofMap dofs_;
+  RegionMaterials materials_;
+  RegionModel model_;
+  CoilRegions coils_;
+  std::array<double, 3> phase_current_a_{0, 0, 0};
+  std::unique_ptr<Assembler> assembler_;
+  SparseCholesky cholesky_;
+  Eigen::VectorXd x_;
+  NewtonReport report_;
+  double wall_start_s_ = 0.0;
+};
+
+// Material of each region kind, the solver's view of the case's materials.
+const Material& material_of(RegionKind kind, const RegionMaterials& m);
+
+}  // namespace gapflux

@@ -1,0 +1,43 @@
+#pragma once
+// summary.json: the stable keys of design.md §5 that exist so far, plus extras (the only file
+// that sees the JSON library is summary.cpp).
+#include <array>
+#include <string>
+#include <vector>
+
+#include "geometry/winding_layout.hpp"
+
+namespace gapflux {
+
+struct RunSummary {
+  std::string case_name;
+  // mesh
+  std::size_t vertices = 0, triangles = 0, dofs = 0;
+  int order = 2;
+  double min_angle_deg = 0.0;
+  int sectors = 1;
+  bool antiperiodic = false;
+  // winding
+  int slots = 0, poles = 0, layers = 1, coil_pitch_slots = 0;
+  std::vector<WindingFactor> factors;
+  double series_turns_per_phase = 0.0;
+  // supply at the instant solved
+  double frequency_hz = 0.0, time_s = 0.0, rotor_angle_deg = 0.0;
+  std::array<double, 3> phase_current_a{0, 0, 0};
+  // results
+  std::array<double, 3> flux_linkage_wb{0, 0, 0};
+  double energy_j = 0.0, coenergy_j = 0.0;
+  double airgap_radius_m = 0.0;
+  double b_peak_tesla = 0.0;
+  // solver
+  int steps = 0, newton_iterations = 0;
+  bool converged = false;
+  double wall_s = 0.0;
+  std::vector<double> residual_history;
+  std::vector<double> step_history;  // line-search factor of each Newton step
+  std::string failure;               // empty when the run succeeded
+};
+
+void write_summary_json(const std::string& path, const RunSummary& s);
+
+}  // namespace gapflux
