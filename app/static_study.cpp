@@ -12,6 +12,7 @@
 #include "postproc/results_file.hpp"
 #include "postproc/summary.hpp"
 #include "postproc/vtu_writer.hpp"
+#include "solver/region_model.hpp"
 
 namespace gapflux {
 namespace {
@@ -21,23 +22,6 @@ double now_s() {
 }
 
 }  // namespace
-
-const Material& material_of(RegionKind kind, const RegionMaterials& m) {
-  switch (kind) {
-    case RegionKind::stator_iron:
-      return m.stator_iron;
-    case RegionKind::rotor_iron:
-      return m.rotor_iron;
-    case RegionKind::coil_side:
-      return m.coils;
-    case RegionKind::bar:
-      return m.bars;
-    case RegionKind::shaft:
-      return m.shaft;
-    default:
-      return m.air;
-  }
-}
 
 StaticStudy::StaticStudy(std::string case_path, std::string out_dir)
     : case_path_(std::move(case_path)), out_dir_(std::move(out_dir)) {}
@@ -61,8 +45,7 @@ void StaticStudy::set_up() {
   lamination_ = build_lamination(case_);
   mesh_settings_ = resolve_mesh_settings(case_, lamination_);
   mesh_ = mesh_lamination(lamination_, mesh_settings_);
-  band_ = build_moving_band(mesh_, case_.study.rotor_angle_rad);
-  dofs_ = build_dof_map(mesh_);
+  system_ = std::make_unique<MagnetostaticSystem>(mesh_, case_.study.rotor_angle_rad);
 
   // Supply at the instant: i_k = √2·I_k·cos(ωt + φ_k).
   const double omega = 2.0 * std::numbers::pi * case_.supply.frequency_hz;
@@ -72,17 +55,7 @@ void StaticStudy::set_up() {
 
   coils_ = coil_regions(mesh_, lamination_.winding);
   const std::vector<double> j = region_current_density(coils_, phase_current_a_);
-  model_.material.clear();
-  model_.source.clear();
-  for (std::size_t r = 0; r < mesh_.regions.size(); ++r) {
-    model_.material.push_back(&material_of(mesh_.regions[r].tag.kind, materials_));
-    ElementSource s;
-    s.constant_a_per_m2 = j[r];
-    model_.source.push_back(s);
-  }
-  assembler_ = std::make_unique<Assembler>(build_element_records(mesh_, &band_, dofs_),
-                                           total_dofs(dofs_, &band_));
-  x_ = Eigen::VectorXd::Zero(assembler_->n_dofs());
+  model_ = make_region_model(mesh_, materials_, j);
 }
 
 void StaticStudy::solve() {
@@ -90,22 +63,23 @@ void StaticStudy::solve() {
   settings.max_iterations = case_.solver.max_iterations;
   settings.residual_tolerance = case_.solver.residual_tolerance;
   settings.update_tolerance = case_.solver.update_tolerance;
-  report_ = solve_newton(*assembler_, cholesky_, model_, settings, x_);
+  report_ = system_->solve(model_, settings);
 }
 
 void StaticStudy::write_output(const std::string& failure) {
   namespace fs = std::filesystem;
+  const Assembler& assembler = system_->assembler();
+  const Eigen::VectorXd& x = system_->x();
   fs::create_directories(fs::path(out_dir_) / "fields");
-  const ElementFields fields = evaluate_element_fields(*assembler_, x_, model_);
+  const ElementFields fields = evaluate_element_fields(assembler, x, model_);
   const int sectors = mesh_.symmetry.sectors;
   const double stack = case_.machine.stack_length_m;
-  const auto energies =
-      region_energies(*assembler_, x_, model_, mesh_.regions.size(), stack, sectors);
+  const auto energies = region_energies(assembler, x, model_, mesh_.regions.size(), stack, sectors);
   const int n_samples =
       case_.output.airgap_samples > 0 ? case_.output.airgap_samples : default_airgap_samples(mesh_);
-  const AirgapSamples airgap = sample_airgap(*assembler_, x_, mesh_, n_samples);
-  const auto psi = phase_flux_linkage(*assembler_, x_, coils_, stack, sectors);
-  const std::vector<double> a_nodes = nodal_potential(mesh_, dofs_, x_);
+  const AirgapSamples airgap = sample_airgap(assembler, x, mesh_, n_samples);
+  const auto psi = phase_flux_linkage(assembler, x, coils_, stack, sectors);
+  const std::vector<double> a_nodes = nodal_potential(mesh_, system_->dofs(), x);
   const MeshQuality quality = mesh_quality(mesh_);
 
   // results.h5
@@ -170,9 +144,9 @@ void StaticStudy::write_output(const std::string& failure) {
   // fields.pvd + fields/step_00000.vtu
   {
     FieldSnapshot snap;
-    snap.elements = &assembler_->elements();
+    snap.elements = &assembler.elements();
     for (std::size_t e = 0; e < snap.elements->size(); ++e) {
-      snap.corner_values.push_back(assembler_->local_values(e, x_));
+      snap.corner_values.push_back(assembler.local_values(e, x));
       snap.region_id.push_back(mesh_.regions[(*snap.elements)[e].region].id);
     }
     snap.b_tesla = fields.b_tesla;
@@ -190,7 +164,7 @@ void StaticStudy::write_output(const std::string& failure) {
   s.vertices = quality.vertices;
   s.triangles = quality.triangles;
   s.order = mesh_.order;
-  s.dofs = static_cast<std::size_t>(assembler_->n_dofs());
+  s.dofs = static_cast<std::size_t>(assembler.n_dofs());
   s.min_angle_deg = quality.min_angle_deg;
   s.sectors = sectors;
   s.antiperiodic = mesh_.symmetry.antiperiodic;
@@ -226,7 +200,7 @@ void StaticStudy::write_output(const std::string& failure) {
 
   fmt::print("case: {}\n", case_.machine.name);
   fmt::print("mesh: order {}, {} triangles, {} dofs, sector 1 of {}\n", mesh_.order,
-             quality.triangles, assembler_->n_dofs(), sectors);
+             quality.triangles, assembler.n_dofs(), sectors);
   fmt::print("newton: {} iteration(s), relative residual {:.2e}{}\n", report_.iterations,
              report_.relative_residual, failure.empty() ? "" : " (not converged)");
   fmt::print(

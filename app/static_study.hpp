@@ -14,9 +14,8 @@
 #include "geometry/moving_band.hpp"
 #include "materials/library.hpp"
 #include "solver/assembly.hpp"
-#include "solver/dof_map.hpp"
+#include "solver/magnetostatic_system.hpp"
 #include "solver/newton.hpp"
-#include "solver/sparse_cholesky.hpp"
 #include "solver/winding_sources.hpp"
 
 namespace gapflux {
@@ -37,20 +36,13 @@ class StaticStudy {
   Lamination lamination_;
   MeshSettings mesh_settings_;
   Mesh mesh_;
-  BandMesh band_;
-  DofMap dofs_;
   RegionMaterials materials_;
   RegionModel model_;
   CoilRegions coils_;
   std::array<double, 3> phase_current_a_{0, 0, 0};
-  std::unique_ptr<Assembler> assembler_;
-  SparseCholesky cholesky_;
-  Eigen::VectorXd x_;
+  std::unique_ptr<MagnetostaticSystem> system_;
   NewtonReport report_;
   double wall_start_s_ = 0.0;
 };
-
-// Material of each region kind, the solver's view of the case's materials.
-const Material& material_of(RegionKind kind, const RegionMaterials& m);
 
 }  // namespace gapflux

@@ -143,7 +143,8 @@ void set_size_field(const Lamination& lam, const MeshSettings& settings,
   std::vector<double> fields;
   const int gap_distance = field::add("MathEval");
   field::setString(gap_distance, "F",
-                   fmt::format("Fabs(Sqrt(x*x+y*y) - {:.12g})", lam.band_mid_radius_m() * to_gmsh));
+                   fmt::format("Fabs(Sqrt(x*x+y*y) - ({:.12g}))",
+                               std::max(0.0, lam.band_mid_radius_m()) * to_gmsh));
   fields.push_back(threshold(gap_distance, gap_mm, 0.5 * lam.airgap_m() * to_gmsh));
 
   constexpr double elements_per_turn = 16.0;
@@ -360,7 +361,7 @@ Mesh mesh_lamination(const Lamination& lam, const MeshSettings& settings) {
         mesh.triangles.insert(mesh.triangles.end(), tri, tri + per);
         mesh.triangle_region.push_back(region);
         int tooth = -1;
-        if (tag.kind == RegionKind::stator_iron) {
+        if (tag.kind == RegionKind::stator_iron && lam.slots > 0) {
           const Vec2 centroid = (a + b + cc) / 3.0;
           tooth = stator_tooth_at(std::atan2(centroid.y(), centroid.x()), lam.slots);
         }

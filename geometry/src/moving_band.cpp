@@ -60,6 +60,7 @@ BandNodeRef stator_node(const Mesh& mesh, int node) {
 BandMesh build_moving_band(const Mesh& mesh, double rotor_angle_rad) {
   BandMesh band;
   band.rotor_angle_rad = rotor_angle_rad;
+  if (mesh.stator_ring.vertices.size() < 2 || mesh.rotor_ring.vertices.size() < 2) return band;
   const RotorRing rotor(mesh, rotor_angle_rad);
   const BandRing& stator = mesh.stator_ring;
   const int n = rotor.intervals();

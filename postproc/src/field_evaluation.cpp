@@ -66,7 +66,9 @@ AirgapSamples sample_airgap(const Assembler& assembler, const Eigen::VectorXd& x
   const double pitch = mesh.stator_ring.pitch_rad;
   const long intervals = n_band / 2;
   for (int j = 0; j < n_samples; ++j) {
-    const double theta = j * mesh.symmetry.sector_angle_rad / n_samples;
+    // Half a spacing in: with two samples per band pitch no point lies on a band edge, where
+    // the tangential component of B jumps between the two triangles.
+    const double theta = (j + 0.5) * mesh.symmetry.sector_angle_rad / n_samples;
     const Vec2 p = polar(s.radius_m, theta);
     const long guess = std::min(intervals - 1, static_cast<long>(std::floor(theta / pitch)));
     bool found = false;

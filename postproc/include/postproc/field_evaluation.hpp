@@ -30,7 +30,7 @@ std::vector<RegionEnergy> region_energies(const Assembler& assembler, const Eige
                                           const RegionModel& model, std::size_t n_regions,
                                           double stack_length_m, int sectors);
 
-// B_r and B_θ at n uniformly spaced angles θ_j = j·(sector angle)/n on the mid-band circle
+// B_r and B_θ at n uniformly spaced angles θ_j = (j + ½)·(sector angle)/n on the mid-band circle
 // (stator frame), evaluated inside the band triangles.
 struct AirgapSamples {
   double radius_m = 0.0;

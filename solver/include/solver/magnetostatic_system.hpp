@@ -1,0 +1,40 @@
+#pragma once
+// One magnetostatic system at one rotor position: the band triangulated at that angle, the
+// constraints, the element set, the assembler and the factorisation it reuses, and the solution
+// vector (kept between solves for warm starts). Mesh and model are the caller's.
+#include <Eigen/Core>
+#include <memory>
+
+#include "geometry/mesh.hpp"
+#include "geometry/moving_band.hpp"
+#include "solver/assembly.hpp"
+#include "solver/dof_map.hpp"
+#include "solver/newton.hpp"
+#include "solver/sparse_cholesky.hpp"
+
+namespace gapflux {
+
+class MagnetostaticSystem {
+ public:
+  MagnetostaticSystem(const Mesh& mesh, double rotor_angle_rad);
+  // Throws NumericalError; x() keeps the last iterate either way.
+  NewtonReport solve(const RegionModel& model, const NewtonSettings& settings);
+
+  const Mesh& mesh() const { return mesh_; }
+  const BandMesh& band() const { return band_; }
+  const DofMap& dofs() const { return dofs_; }
+  const Assembler& assembler() const { return *assembler_; }
+  Assembler& assembler() { return *assembler_; }
+  const Eigen::VectorXd& x() const { return x_; }
+  Eigen::VectorXd& x() { return x_; }
+
+ private:
+  const Mesh& mesh_;
+  BandMesh band_;
+  DofMap dofs_;
+  std::unique_ptr<Assembler> assembler_;
+  SparseCholesky cholesky_;
+  Eigen::VectorXd x_;
+};
+
+}  // namespace gapflux
