@@ -97,7 +97,7 @@ const BadCase catalogue[] = {
      "must be an integer in [1, 2]", "order = 3"},
     {"three winding layers", "pump_4p36s.toml", "layers = 2", "layers = 3", "winding.layers",
      "must be an integer in [1, 2]", "layers = 3"},
-    {"negative current", "pump_4p36s.toml", "rms_a = 8.0", "rms_a = -8.0", "supply.rms_a",
+    {"negative current", "pump_4p36s.toml", "rms_a = 6.5", "rms_a = -6.5", "supply.rms_a",
      "must be in [0,", "rms_a"},
     {"zero frequency", "pump_4p36s.toml", "frequency_hz = 50.0", "frequency_hz = 0.0",
      "supply.frequency_hz", "greater than 0 Hz", "frequency_hz"},

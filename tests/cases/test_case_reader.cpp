@@ -22,7 +22,7 @@ TEST_CASE("demo case reads with SI units and documented defaults", "[cases]") {
   // Balanced phases by default: b lags a by 120°, c by 240° (design.md §4).
   CHECK(c.supply.phases[1].angle_rad == Approx(-2.0 * std::numbers::pi / 3.0));
   CHECK(c.supply.phases[2].angle_rad == Approx(-4.0 * std::numbers::pi / 3.0));
-  CHECK(c.supply.phases[2].rms_a == Approx(8.0));
+  CHECK(c.supply.phases[2].rms_a == Approx(6.5));
   CHECK(c.mesh.band_nodes == 2016);
   CHECK(c.mesh.growth_rate == Approx(0.2));
 }
@@ -54,7 +54,7 @@ TEST_CASE("per-phase supply overrides keep the other phases balanced", "[cases]"
   const std::string text = test::read_text(test::example("pump_4p36s.toml")) +
                            "\n[supply.phases]\nb = { rms_a = 23.1 }\nc = { angle_deg = -235.0 }\n";
   const Case c = read_case_text(text, "inline.toml");
-  CHECK(c.supply.phases[0].rms_a == Approx(8.0));
+  CHECK(c.supply.phases[0].rms_a == Approx(6.5));
   CHECK(c.supply.phases[1].rms_a == Approx(23.1));
   CHECK(c.supply.phases[1].angle_rad == Approx(-2.0 * std::numbers::pi / 3.0));
   CHECK(c.supply.phases[2].angle_rad == Approx(-235.0 * std::numbers::pi / 180.0));

@@ -1,0 +1,100 @@
+"""`gapflux run` outputs read with independent readers: results.h5 with h5py, the field VTU with
+meshio, summary.json with json (Debian's python3-h5py, python3-meshio).
+
+Usage: test_run_outputs.py GAPFLUX EXAMPLES_DIR TMP_DIR
+Checks: every dataset has a `units` attribute; shapes agree with the mesh; the airgap samples
+are uniform on the mid-band circle; phase a, at its peak current, links the most flux; the VTU holds one cell per element with its fields;
+summary.json carries the stable keys; a run stopped by its iteration limit exits 3 and still
+leaves readable files.
+"""
+import json
+import os
+import subprocess
+import sys
+
+import h5py
+import meshio
+import numpy as np
+
+gapflux, examples, tmp = sys.argv[1:4]
+failures = []
+passed = 0
+
+
+def check(condition, message):
+    global passed
+    if condition:
+        passed += 1
+    else:
+        failures.append(message)
+
+
+case = os.path.join(examples, "compressor_2p24s.toml")
+out = os.path.join(tmp, "run_compressor")
+run = subprocess.run([gapflux, "run", case, "--out", out], capture_output=True, text=True)
+check(run.returncode == 0, f"run failed ({run.returncode}): {run.stderr}")
+
+with h5py.File(os.path.join(out, "results.h5"), "r") as f:
+    datasets = []
+    f.visititems(lambda name, obj: datasets.append((name, obj)) if isinstance(obj, h5py.Dataset) else None)
+    check(len(datasets) >= 15, f"only {len(datasets)} datasets")
+    for name, d in datasets:
+        check("units" in d.attrs, f"dataset {name} has no units attribute")
+    nodes = f["mesh/nodes"][...]
+    tri = f["mesh/triangles"][...]
+    check(nodes.shape[1] == 2 and tri.shape[1] == 6, f"mesh shapes {nodes.shape} {tri.shape}")
+    check(f["field/A"].shape == (nodes.shape[0],), "A is not one value per node")
+    check(f["field/B"].shape == (tri.shape[0], 2), "B is not one vector per triangle")
+    check(f["field/B_abs"].shape == (tri.shape[0],), "B_abs shape")
+    b = f["field/B"][...]
+    check(np.allclose(np.hypot(b[:, 0], b[:, 1]), f["field/B_abs"][...], rtol=1e-12), "|B| differs from B")
+    check(tri.max() < nodes.shape[0] and tri.min() >= 0, "triangle node index out of range")
+    theta = f["airgap/theta"][...]
+    d_theta = np.diff(theta)
+    check(np.allclose(d_theta, d_theta[0], rtol=1e-12, atol=0), "airgap samples not uniform")
+    check(abs(theta[-1] + d_theta[0] / 2 - np.pi) < 1e-9, "samples do not cover the half-model sector")
+    psi = f["winding/flux_linkage"][...]
+    current = f["winding/phase_current"][...]
+    # At t = 0 phase a carries the peak current; its flux linkage is the largest and positive.
+    check(np.argmax(psi) == 0 and psi[0] > 0 and current[0] > 0, f"flux linkages {psi}")
+    check(f.attrs["converged"] == 1 and f.attrs["steps_done"] == 1, "root attributes")
+    names = [n.decode() if isinstance(n, bytes) else n for n in f["mesh/region_names"][...]]
+    check("stator_iron" in names and "moving_band" in names, "region names")
+
+summary = json.load(open(os.path.join(out, "summary.json")))
+check(summary["schema"] == "gapflux-summary/1", "schema")
+for key in ["vertices", "triangles", "order", "dofs", "min_angle_deg"]:
+    check(key in summary["mesh"], f"summary.mesh.{key} missing")
+for key in ["slots", "poles", "layers", "coil_pitch_slots", "factors"]:
+    check(key in summary["winding"], f"summary.winding.{key} missing")
+for key in ["steps", "newton_iterations", "wall_s"]:
+    check(key in summary["solver"], f"summary.solver.{key} missing")
+check(summary["winding"]["factors"][0]["order"] == 1, "first winding factor is not the fundamental")
+
+vtu = meshio.read(os.path.join(out, "fields", "step_00000.vtu"))
+cells = sum(len(c.data) for c in vtu.cells)
+check(cells == summary["mesh"]["triangles"] + 2 * 1560 // 2, f"VTU has {cells} cells")
+for name in ["Bx", "By", "B_abs", "mu_r", "region_id"]:
+    check(name in vtu.cell_data, f"VTU cell field {name} missing")
+check("A" in vtu.point_data, "VTU point field A missing")
+pvd = open(os.path.join(out, "fields.pvd")).read()
+check("fields/step_00000.vtu" in pvd, "fields.pvd does not list the step")
+
+# A run cut short by its iteration limit: exit code 3, files written, marked unconverged.
+text = open(case).read().replace("[mesh]", "[solver]\nmax_iterations = 1\n\n[mesh]")
+short_case = os.path.join(tmp, "short.toml")
+open(short_case, "w").write(text)
+short_out = os.path.join(tmp, "run_short")
+run = subprocess.run([gapflux, "run", short_case, "--out", short_out], capture_output=True, text=True)
+check(run.returncode == 3, f"iteration limit gave exit code {run.returncode}")
+check("did not converge" in run.stderr, "no diagnostic on stderr")
+with h5py.File(os.path.join(short_out, "results.h5"), "r") as f:
+    check(f.attrs["converged"] == 0 and f.attrs["steps_done"] == 0, "unconverged run not marked")
+    check(len(f["solver/relative_residual"][...]) >= 1, "iteration history missing")
+short_summary = json.load(open(os.path.join(short_out, "summary.json")))
+check("failure" in short_summary["solver"], "summary has no failure text")
+
+for f in failures:
+    print("FAIL:", f)
+print(f"{passed} passed, {len(failures)} failed")
+sys.exit(1 if failures else 0)
