@@ -33,8 +33,17 @@ void StaticStudy::run() {
     solve();
   } catch (const NumericalError& e) {
     report_ = e.report();
-    write_output(e.what());
-    throw;
+    // Where the field is most extreme is where a failing solve usually goes wrong.
+    std::string where = "\n  largest |B| at the last iterate:";
+    for (const auto& [element, b] : worst_elements(system_->assembler(), system_->x(), 5)) {
+      const ElementRecord& rec = system_->assembler().elements()[element];
+      const Vec2 c = (rec.nodes.x[0] + rec.nodes.x[1] + rec.nodes.x[2]) / 3.0;
+      where += fmt::format("\n    {:.3f} T in {} at ({:.2f}, {:.2f}) mm", b,
+                           mesh_.regions[rec.region].name, c.x() * 1e3, c.y() * 1e3);
+    }
+    const std::string text = e.what() + where;
+    write_output(text);
+    throw NumericalError(text, report_);
   }
   write_output("");
 }

@@ -101,6 +101,21 @@ const BadCase catalogue[] = {
      "must be in [0,", "rms_a"},
     {"zero frequency", "pump_4p36s.toml", "frequency_hz = 50.0", "frequency_hz = 0.0",
      "supply.frequency_hz", "greater than 0 Hz", "frequency_hz"},
+    {"B-H table not increasing", "pump_4p36s.toml", "",
+     "\n[materials.define.bad]\nkind = \"steel\"\nbh_h_a_per_m = [0, 100, 50, 400, 1000]\n"
+     "bh_b_tesla = [0, 0.5, 1.0, 1.3, 1.5]\n",
+     "materials.define.bad.bh_b_tesla", "must both increase strictly", "bh_b_tesla"},
+    {"B-H table not starting at the origin", "pump_4p36s.toml", "",
+     "\n[materials.define.bad]\nkind = \"steel\"\nbh_h_a_per_m = [10, 100, 200, 400, 1000]\n"
+     "bh_b_tesla = [0.1, 0.5, 1.0, 1.3, 1.5]\n",
+     "materials.define.bad.bh_b_tesla", "must start at H = 0, B = 0", "bh_b_tesla"},
+    {"B-H table too short", "pump_4p36s.toml", "",
+     "\n[materials.define.bad]\nkind = \"steel\"\nbh_h_a_per_m = [0, 100, 1000]\n"
+     "bh_b_tesla = [0, 1.0, 1.5]\n",
+     "materials.define.bad.bh_b_tesla", "at least 5 points", "bh_b_tesla"},
+    {"unknown material kind", "pump_4p36s.toml", "",
+     "\n[materials.define.bad]\nkind = \"steal\"\nrelative_permeability = 100.0\n",
+     "materials.define.bad.kind", "did you mean \"steel\"", "steal"},
     {"unknown phase key", "pump_4p36s.toml", "", "\n[supply.phases]\nb = { rms_amps = 20.0 }\n",
      "supply.phases.b.rms_amps", "did you mean 'rms_a'", "rms_amps"},
 };

@@ -1,0 +1,177 @@
+// Solver benchmark: per Newton iteration, assembly / numeric factorisation / solve, against the
+// bare CHOLMOD factor + solve of the same matrix; Newton iterations from a cold and a warm
+// start; peak memory; and how time grows with the DOF count over a refined series.
+//
+//   build/bench/gapflux_bench [--quick] [--threads N]
+//
+// Prints figures and ratios; it is not a test and asserts nothing.
+#include <fmt/format.h>
+#include <omp.h>
+#include <sys/resource.h>
+
+#include <chrono>
+#include <cmath>
+#include <cstring>
+#include <numbers>
+#include <string>
+#include <vector>
+
+#include "cases/case_reader.hpp"
+#include "geometry/lamination.hpp"
+#include "geometry/mesher.hpp"
+#include "solver/magnetostatic_system.hpp"
+#include "solver/region_model.hpp"
+#include "solver/sparse_cholesky.hpp"
+#include "solver/winding_sources.hpp"
+
+using namespace gapflux;
+
+namespace {
+
+double seconds(std::chrono::steady_clock::time_point t0) {
+  return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+}
+
+double peak_memory_mb() {
+  rusage u{};
+  getrusage(RUSAGE_SELF, &u);
+  return u.ru_maxrss / 1024.0;
+}
+
+struct Row {
+  std::string name;
+  int dofs = 0;
+  int cold_iterations = 0, warm_iterations = 0;
+  double assembly_s = 0, factor_s = 0, solve_s = 0;  // per iteration, averages
+  double bare_s = 0;                                 // CHOLMOD factor + solve alone
+  double analyse_s = 0;
+  double mesh_s = 0;
+  std::size_t factor_nnz = 0;
+};
+
+Row run_case(const std::string& name, const std::string& path, double refine) {
+  Row row;
+  row.name = name;
+  std::string text;
+  {
+    std::FILE* f = std::fopen(path.c_str(), "rb");
+    char buffer[4096];
+    std::size_t n;
+    while ((n = std::fread(buffer, 1, sizeof buffer, f)) > 0) text.append(buffer, n);
+    std::fclose(f);
+  }
+  Case c = read_case_text(text, path);
+  const Lamination lam = build_lamination(c);
+  MeshSettings settings = resolve_mesh_settings(c, lam);
+  if (refine != 1.0) {
+    settings.airgap_size_m *= refine;
+    settings.iron_size_m *= refine;
+    const int multiple = 4 * lam.symmetry.sectors;
+    settings.band_nodes =
+        static_cast<int>(std::ceil(settings.band_nodes / refine / multiple)) * multiple;
+  }
+  auto t0 = std::chrono::steady_clock::now();
+  const Mesh mesh = mesh_lamination(lam, settings);
+  row.mesh_s = seconds(t0);
+  const RegionMaterials materials = resolve_region_materials(c);
+  const CoilRegions coils = coil_regions(mesh, lam.winding);
+  const double omega = 2 * std::numbers::pi * c.supply.frequency_hz;
+  const auto currents_at = [&](double t) {
+    std::array<double, 3> i{};
+    for (int k = 0; k < 3; ++k)
+      i[k] = std::sqrt(2.0) * c.supply.phases[k].rms_a *
+             std::cos(omega * t + c.supply.phases[k].angle_rad);
+    return i;
+  };
+  MagnetostaticSystem system(mesh, 0.0);
+  row.dofs = system.assembler().n_dofs();
+  NewtonSettings newton;
+  RegionModel model =
+      make_region_model(mesh, materials, region_current_density(coils, currents_at(0.0)));
+  const NewtonReport cold = system.solve(model, newton);
+  row.cold_iterations = cold.iterations;
+  row.analyse_s = cold.analyse_s;
+  for (const NewtonIteration& it : cold.history) {
+    row.assembly_s += it.assembly_s;
+    row.factor_s += it.factorize_s;
+    row.solve_s += it.solve_s;
+  }
+  const int n_it = std::max(1, cold.iterations);
+  row.assembly_s /= n_it;
+  row.factor_s /= n_it;
+  row.solve_s /= n_it;
+
+  // Warm start: the next time step of a 100-steps-per-period study, from this solution.
+  model = make_region_model(
+      mesh, materials, region_current_density(coils, currents_at(0.01 / c.supply.frequency_hz)));
+  row.warm_iterations = system.solve(model, newton).iterations;
+
+  // Bare CHOLMOD on the last Jacobian: numeric factorisation and one solve, best of three.
+  Assembler& a = system.assembler();
+  a.assemble(system.x(), model, true);
+  SparseCholesky bare;
+  bare.analyze(a.n_dofs(), a.column_starts(), a.row_indices());
+  std::vector<double> x(a.n_dofs()), b(a.n_dofs(), 1.0);
+  row.bare_s = 1e300;
+  for (int k = 0; k < 3; ++k) {
+    t0 = std::chrono::steady_clock::now();
+    bare.factorize(a.values());
+    bare.solve(b.data(), x.data());
+    row.bare_s = std::min(row.bare_s, seconds(t0));
+  }
+  row.factor_nnz = bare.factor_nonzeros();
+  return row;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  bool quick = false;
+  for (int i = 1; i < argc; ++i) {
+    if (std::strcmp(argv[i], "--quick") == 0) quick = true;
+    if (std::strcmp(argv[i], "--threads") == 0 && i + 1 < argc)
+      omp_set_num_threads(std::atoi(argv[++i]));
+  }
+  const std::string dir = GAPFLUX_EXAMPLES_DIR;
+  std::vector<std::pair<std::string, double>> series = {
+      {"pump_4p36s x2.0", 2.0}, {"pump_4p36s x1.0", 1.0}, {"pump_4p36s x0.6", 0.6}};
+  if (!quick) {
+    series.push_back({"pump_4p36s x0.4", 0.4});
+    series.push_back({"pump_4p36s x0.28", 0.28});
+  }
+  fmt::print("gapflux solver benchmark ({} threads)\n", omp_get_max_threads());
+  fmt::print("{:<22} {:>8} {:>6} {:>5} {:>9} {:>9} {:>9} {:>9} {:>9} {:>7} {:>8} {:>9}\n", "case",
+             "dofs", "cold", "warm", "assem_s", "factor_s", "solve_s", "iter_s", "bare_s", "ratio",
+             "mesh_s", "L_nnz");
+  std::vector<Row> rows;
+  const auto print = [](const Row& r) {
+    const double iteration = r.assembly_s + r.factor_s + r.solve_s;
+    fmt::print(
+        "{:<22} {:>8} {:>6} {:>5} {:>9.4f} {:>9.4f} {:>9.4f} {:>9.4f} {:>9.4f} {:>7.2f} {:>8.2f} "
+        "{:>9}\n",
+        r.name, r.dofs, r.cold_iterations, r.warm_iterations, r.assembly_s, r.factor_s, r.solve_s,
+        iteration, r.bare_s, iteration / r.bare_s, r.mesh_s, r.factor_nnz);
+    std::fflush(stdout);
+  };
+  for (const char* demo : {"compressor_2p24s", "pump_4p36s"}) {
+    rows.push_back(run_case(demo, dir + "/" + demo + ".toml", 1.0));
+    print(rows.back());
+  }
+  std::vector<Row> scaled;
+  for (const auto& [name, refine] : series) {
+    scaled.push_back(run_case(name, dir + "/pump_4p36s.toml", refine));
+    print(scaled.back());
+  }
+  // Least-squares slope of log(time per iteration) against log(DOFs).
+  double sx = 0, sy = 0, sxx = 0, sxy = 0;
+  for (const Row& r : scaled) {
+    const double lx = std::log(r.dofs), ly = std::log(r.assembly_s + r.factor_s + r.solve_s);
+    sx += lx, sy += ly, sxx += lx * lx, sxy += lx * ly;
+  }
+  const double n = scaled.size();
+  fmt::print("time per Newton iteration ∝ DOFs^{:.3f} over {:.0f}…{:.0f} DOFs\n",
+             (n * sxy - sx * sy) / (n * sxx - sx * sx), double(scaled.front().dofs),
+             double(scaled.back().dofs));
+  fmt::print("peak memory {:.0f} MB\n", peak_memory_mb());
+  return 0;
+}
