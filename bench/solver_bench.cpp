@@ -66,6 +66,7 @@ Row run_case(const std::string& name, const std::string& path, double refine) {
   if (refine != 1.0) {
     settings.airgap_size_m *= refine;
     settings.iron_size_m *= refine;
+    settings.elements_per_turn /= refine;
     const int multiple = 4 * lam.symmetry.sectors;
     settings.band_nodes =
         static_cast<int>(std::ceil(settings.band_nodes / refine / multiple)) * multiple;
@@ -138,6 +139,7 @@ int main(int argc, char** argv) {
   if (!quick) {
     series.push_back({"pump_4p36s x0.4", 0.4});
     series.push_back({"pump_4p36s x0.28", 0.28});
+    series.push_back({"pump_4p36s x0.18", 0.18});
   }
   fmt::print("gapflux solver benchmark ({} threads)\n", omp_get_max_threads());
   fmt::print("{:<22} {:>8} {:>6} {:>5} {:>9} {:>9} {:>9} {:>9} {:>9} {:>7} {:>8} {:>9}\n", "case",

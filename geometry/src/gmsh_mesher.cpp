@@ -147,7 +147,7 @@ void set_size_field(const Lamination& lam, const MeshSettings& settings,
                                std::max(0.0, lam.band_mid_radius_m()) * to_gmsh));
   fields.push_back(threshold(gap_distance, gap_mm, 0.5 * lam.airgap_m() * to_gmsh));
 
-  constexpr double elements_per_turn = 16.0;
+  const double elements_per_turn = settings.elements_per_turn;
   std::map<long, std::vector<double>> arcs_by_radius;  // radius in µm → curves
   for (const auto& [tag, s] : samples) {
     const double r = sample_radius(s);

@@ -118,14 +118,16 @@ NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const 
     };
     // Bracket the minimum: the step may also be too short (iron coming down from deep
     // saturation, where the tangent overestimates the curvature), so expand up to 8×.
-    double a = 0.0, fa = g0, b = 1.0, fb = g0 < 0.0 ? slope(1.0) : 0.0;
+    // Close to the solution the full Newton step is right (quadratic region): no search.
+    const bool search = record.relative_residual > 1e-3;
+    double a = 0.0, fa = g0, b = 1.0, fb = g0 < 0.0 && search ? slope(1.0) : 0.0;
     while (g0 < 0.0 && fb < 0.0 && b < 8.0) {
       a = b, fa = fb;
       b *= 2.0;
       fb = slope(b);
     }
     step = b;
-    if (g0 < 0.0 && fb > 0.0 && std::abs(fb) > 0.1 * std::abs(g0)) {
+    if (search && g0 < 0.0 && fb > 0.0 && std::abs(fb) > 0.1 * std::abs(g0)) {
       int side = 0;
       for (int h = 0; h < settings.max_halvings; ++h) {
         const double c = (a * fb - b * fa) / (fb - fa);

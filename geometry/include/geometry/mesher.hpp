@@ -8,10 +8,11 @@ namespace gapflux {
 
 struct MeshSettings {
   int order = 2;
-  double airgap_size_m = 0.0;  // element size in the airgap
-  double iron_size_m = 0.0;    // largest element size
-  double growth_rate = 0.2;    // size increase per unit distance from the band
-  int band_nodes = 0;          // nodes on each band circle over the full circle
+  double airgap_size_m = 0.0;       // element size in the airgap
+  double iron_size_m = 0.0;         // largest element size
+  double growth_rate = 0.2;         // size increase per unit distance from the band
+  int band_nodes = 0;               // nodes on each band circle over the full circle
+  double elements_per_turn = 16.0;  // on small arcs (slot bottoms, bar ends)
 };
 
 // Resolves the case's mesh table against the lamination (defaults documented in
