@@ -91,8 +91,25 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
              "{:g}\nband_nodes = {}\nsymmetry = \"{}\"\n",
              mesh.order, mesh.airgap_size_m / mm, mesh.iron_size_m / mm, mesh.growth_rate,
              mesh.band_nodes, to_string(c.mesh.symmetry));
-  fmt::print(out, "\n[study]\nkind = \"static\"\nrotor_angle_deg = {:g}\ntime_s = {:g}\n",
-             c.study.rotor_angle_rad * to_deg, c.study.time_s);
+  const StudySpec& st = c.study;
+  const bool stepping = st.kind == StudyKind::time_stepping;
+  fmt::print(out, "\n[study]\nkind = \"{}\"\nrotor_angle_deg = {:g}\ntime_s = {:g}\n",
+             stepping ? "time_stepping" : "static", st.rotor_angle_rad * to_deg, st.time_s);
+  if (stepping) {
+    const char* motion = st.motion == Motion::slip    ? "slip"
+                         : st.motion == Motion::speed ? "speed"
+                                                      : "locked";
+    fmt::print(out,
+               "steps_per_period = {}\nperiods = {:g}\ndiscard_periods = {:g}\nmotion = \"{}\"\n",
+               st.steps_per_period, st.periods, st.discard_periods, motion);
+    if (st.motion == Motion::slip) fmt::print(out, "slip = {:g}\n", st.slip);
+    if (st.motion == Motion::speed) fmt::print(out, "speed_rpm = {:g}\n", st.speed_rpm);
+    fmt::print(out, "band_aligned_steps = {}\n", st.band_aligned_steps);
+  }
+  if (c.rotor_currents.bar_rms_a > 0)
+    fmt::print(out,
+               "\n[rotor_currents]  # imposed, not induced\nbar_rms_a = {:g}\nangle_deg = {:g}\n",
+               c.rotor_currents.bar_rms_a, c.rotor_currents.angle_rad * to_deg);
   fmt::print(out, "\n[output]\nfields_every = {}\n", c.output.fields_every);
 
   const auto& sd = lam.slot;

@@ -5,6 +5,7 @@
 #include <omp.h>
 #include <filesystem>
 #include <iostream>
+#include <numbers>
 
 #include "case_printout.hpp"
 #include "cases/case_reader.hpp"
@@ -13,7 +14,9 @@
 #include "geometry/moving_band.hpp"
 #include "materials/library.hpp"
 #include "postproc/vtu_writer.hpp"
+#include "solver/time_grid.hpp"
 #include "static_study.hpp"
+#include "transient_study.hpp"
 
 namespace gapflux {
 namespace {
@@ -23,6 +26,7 @@ struct Prepared {
   Case c;
   Lamination lamination;
   MeshSettings mesh_settings;
+  TimeGrid grid;
 };
 
 Prepared prepare(const std::string& case_path) {
@@ -31,6 +35,8 @@ Prepared prepare(const std::string& case_path) {
   resolve_region_materials(p.c);
   p.lamination = build_lamination(p.c);
   p.mesh_settings = resolve_mesh_settings(p.c, p.lamination);
+  if (p.c.study.kind == StudyKind::time_stepping)
+    p.grid = make_time_grid(p.c, 2.0 * std::numbers::pi / p.mesh_settings.band_nodes);
   return p;
 }
 
@@ -39,6 +45,15 @@ Prepared prepare(const std::string& case_path) {
 int command_check(const std::string& case_path, const CommonOptions&) {
   const Prepared p = prepare(case_path);
   print_resolved_case(std::cout, p.c, p.lamination, p.mesh_settings);
+  if (p.c.study.kind == StudyKind::time_stepping)
+    fmt::print(
+        "time_grid = {{ steps = {}, steps_per_period = {}, dt_s = {:.6e}, rotor_speed_rpm = "
+        "{:.3f}{} }}\n",
+        p.grid.steps, p.grid.steps_per_period, p.grid.dt_s,
+        p.grid.mechanical_speed_rad_s * 30.0 / std::numbers::pi,
+        p.grid.band_pitches_per_step > 0
+            ? fmt::format(", band_pitches_per_step = {}", p.grid.band_pitches_per_step)
+            : std::string());
   std::cout << "check: ok\n";
   return 0;
 }
@@ -60,9 +75,16 @@ int command_mesh(const std::string& case_path, const std::string& out_dir, const
 int command_run(const std::string& case_path, const std::string& out_dir,
                 const CommonOptions& options) {
   if (options.threads > 0) omp_set_num_threads(options.threads);
-  StaticStudy study(case_path, out_dir);
+  const bool stepping = read_case_file(case_path).study.kind == StudyKind::time_stepping;
+  if (options.resume && !stepping)
+    throw InputError(case_path, {}, "study.kind",
+                     "--resume continues a time-stepping study; this case is static");
   try {
-    study.run();
+    if (stepping) {
+      TransientStudy(case_path, out_dir, options.resume).run();
+    } else {
+      StaticStudy(case_path, out_dir).run();
+    }
   } catch (const NumericalError& e) {
     fmt::print(stderr, "gapflux: numerical failure: {}\n(what was computed is saved in {})\n",
                e.what(), out_dir);

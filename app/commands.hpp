@@ -6,7 +6,8 @@
 namespace gapflux {
 
 struct CommonOptions {
-  int threads = 0;  // 0: as many as the machine has
+  int threads = 0;      // 0: as many as the machine has
+  bool resume = false;  // run: continue a killed time-stepping run
 };
 
 int command_check(const std::string& case_path, const CommonOptions& options);

@@ -31,6 +31,8 @@ int main(int argc, char** argv) {
   auto* run = app.add_subcommand("run", "solve a case; write results into DIR");
   run->add_option("CASE", case_path, "case file (TOML)")->required();
   run->add_option("--out", out_dir, "output directory")->required();
+  run->add_flag("--resume", options.resume,
+                "continue a killed time-stepping run from its last finished step in DIR");
 
   try {
     app.parse(argc, argv);

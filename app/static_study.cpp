@@ -9,6 +9,7 @@
 
 #include "cases/case_reader.hpp"
 #include "postproc/field_evaluation.hpp"
+#include "postproc/result_sets.hpp"
 #include "postproc/results_file.hpp"
 #include "postproc/summary.hpp"
 #include "postproc/vtu_writer.hpp"
@@ -98,25 +99,9 @@ void StaticStudy::write_output(const std::string& failure) {
     h5.attribute("/", "case_name", case_.machine.name);
     h5.attribute("/", "converged", static_cast<long>(failure.empty()));
     h5.attribute("/", "steps_done", static_cast<long>(failure.empty() ? 1 : 0));
-    std::vector<double> nodes;
-    for (const Vec2& p : mesh_.nodes) nodes.insert(nodes.end(), {p.x(), p.y()});
-    h5.write("mesh/nodes", nodes, "m", 2);
-    h5.write("mesh/triangles", mesh_.triangles, "1", mesh_.nodes_per_triangle());
-    std::vector<int> region_ids, triangle_region,
-        on_rotor(mesh_.node_on_rotor.begin(), mesh_.node_on_rotor.end());
-    std::vector<std::string> names;
-    for (const MeshRegion& r : mesh_.regions) {
-      region_ids.push_back(r.id);
-      names.push_back(r.name);
-    }
+    write_mesh_datasets(h5, mesh_);
+    std::vector<int> triangle_region;
     for (int r : mesh_.triangle_region) triangle_region.push_back(mesh_.regions[r].id);
-    h5.write("mesh/region_ids", region_ids, "1");
-    h5.write_strings("mesh/region_names", names);
-    h5.write("mesh/triangle_region", triangle_region, "1");
-    h5.write("mesh/node_on_rotor", on_rotor, "1");
-    h5.attribute("mesh", "order", static_cast<long>(mesh_.order));
-    h5.attribute("mesh", "sectors", static_cast<long>(sectors));
-    h5.attribute("mesh", "antiperiodic", static_cast<long>(mesh_.symmetry.antiperiodic));
     h5.attribute("mesh", "rotor_angle_rad", case_.study.rotor_angle_rad);
     h5.write("field/A", a_nodes, "Wb/m");
     const std::size_t n_tri = mesh_.n_triangles();

@@ -19,9 +19,13 @@
 #include "cases/case_reader.hpp"
 #include "geometry/lamination.hpp"
 #include "geometry/mesher.hpp"
+#include "postproc/field_evaluation.hpp"
+#include "postproc/torque.hpp"
 #include "solver/magnetostatic_system.hpp"
 #include "solver/region_model.hpp"
+#include "solver/rotor_currents.hpp"
 #include "solver/sparse_cholesky.hpp"
+#include "solver/time_grid.hpp"
 #include "solver/winding_sources.hpp"
 
 using namespace gapflux;
@@ -124,6 +128,77 @@ Row run_case(const std::string& name, const std::string& path, double refine) {
   return row;
 }
 
+// Time stepping: per step, the band re-triangulation and system set-up ("remesh"), Newton's
+// assembly / factorisation / solve, and the post-processing (torque, flux linkage, airgap).
+void run_stepping(const std::string& path, int steps) {
+  std::string text;
+  {
+    std::FILE* f = std::fopen(path.c_str(), "rb");
+    char buffer[4096];
+    std::size_t n;
+    while ((n = std::fread(buffer, 1, sizeof buffer, f)) > 0) text.append(buffer, n);
+    std::fclose(f);
+  }
+  const Case c = read_case_text(text, path);
+  const Lamination lam = build_lamination(c);
+  const Mesh mesh = mesh_lamination(lam, resolve_mesh_settings(c, lam));
+  const RegionMaterials materials = resolve_region_materials(c);
+  const CoilRegions coils = coil_regions(mesh, lam.winding);
+  const TimeGrid grid = make_time_grid(c, mesh.stator_ring.pitch_rad);
+  const double omega = 2 * std::numbers::pi * c.supply.frequency_hz;
+  double remesh = 0, assembly = 0, factor = 0, solve = 0, post = 0, wall = 0;
+  int iterations = 0, analyses = 0;
+  Eigen::VectorXd last, before;
+  int last_shift = 0;
+  for (int n = 0; n < steps; ++n) {
+    const auto t_step = std::chrono::steady_clock::now();
+    const double t = grid.time(n), angle = grid.rotor_angle(n);
+    auto t0 = std::chrono::steady_clock::now();
+    MagnetostaticSystem system(mesh, angle);
+    if (last.size())
+      system.warm_start(before.size() ? Eigen::VectorXd(2 * last - before) : last, last_shift);
+    remesh += seconds(t0);
+    std::array<double, 3> i{};
+    for (int k = 0; k < 3; ++k)
+      i[k] = std::sqrt(2.0) * c.supply.phases[k].rms_a *
+             std::cos(omega * t + c.supply.phases[k].angle_rad);
+    std::vector<double> j = region_current_density(coils, i);
+    const std::vector<double> bars = bar_current_density(mesh, c, lam.winding, lam.bars, t, angle);
+    for (std::size_t r = 0; r < j.size(); ++r) j[r] += bars[r];
+    const RegionModel model = make_region_model(mesh, materials, j);
+    const NewtonReport report = system.solve(model, NewtonSettings{});
+    iterations += report.iterations;
+    analyses += report.analysed;
+    for (const NewtonIteration& it : report.history) {
+      assembly += it.assembly_s;
+      factor += it.factorize_s;
+      solve += it.solve_s;
+    }
+    remesh += report.analyse_s;
+    t0 = std::chrono::steady_clock::now();
+    arkkio_torque_nm(system.assembler(), system.x(), mesh, c.machine.stack_length_m);
+    phase_flux_linkage(system.assembler(), system.x(), coils, c.machine.stack_length_m,
+                       mesh.symmetry.sectors);
+    sample_airgap(system.assembler(), system.x(), mesh, default_airgap_samples(mesh));
+    post += seconds(t0);
+    before = last;
+    last = system.x();
+    last_shift = system.band().shift;
+    wall += seconds(t_step);
+  }
+  fmt::print("time stepping {} ({} steps of {} per period, {} DOFs):\n",
+             path.substr(path.rfind('/') + 1), steps, grid.steps_per_period, last.size());
+  fmt::print(
+      "  per step: wall {:.3f} s = band + set-up + analysis {:.3f} + assembly {:.3f} + "
+      "factorisation {:.3f} "
+      "+ solve {:.3f} + post-processing {:.3f}\n",
+      wall / steps, remesh / steps, assembly / steps, factor / steps, solve / steps, post / steps);
+  fmt::print(
+      "  Newton iterations per step {:.2f}; symbolic analyses {} of {} steps; per electrical "
+      "period {:.1f} s\n",
+      double(iterations) / steps, analyses, steps, wall / steps * grid.steps_per_period);
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
@@ -174,6 +249,7 @@ int main(int argc, char** argv) {
   fmt::print("time per Newton iteration ∝ DOFs^{:.3f} over {:.0f}…{:.0f} DOFs\n",
              (n * sxy - sx * sy) / (n * sxx - sx * sx), double(scaled.front().dofs),
              double(scaled.back().dofs));
+  run_stepping(dir + "/pump_4p36s_running.toml", quick ? 6 : 20);
   fmt::print("peak memory {:.0f} MB\n", peak_memory_mb());
   return 0;
 }

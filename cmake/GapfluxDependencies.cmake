@@ -23,3 +23,7 @@ add_library(gapflux_gmsh INTERFACE IMPORTED)
 target_include_directories(gapflux_gmsh SYSTEM INTERFACE ${GMSH_INCLUDE_DIR})
 target_link_libraries(gapflux_gmsh INTERFACE ${GMSH_LIBRARY})
 find_package(nlohmann_json 3 REQUIRED)
+
+# FFTW (double precision) through pkg-config.
+find_package(PkgConfig REQUIRED)
+pkg_check_modules(FFTW3 REQUIRED IMPORTED_TARGET fftw3)

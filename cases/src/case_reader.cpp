@@ -351,11 +351,49 @@ MeshSpec parse_mesh(std::optional<TableReader> t) {
 StudySpec parse_study(std::optional<TableReader> t) {
   StudySpec s;
   if (!t) return s;
-  s.kind = static_cast<StudyKind>(choice(*t, "kind", {"static"}, std::size_t{0}));
+  s.kind = static_cast<StudyKind>(choice(*t, "kind", {"static", "time_stepping"}, std::size_t{0}));
   s.rotor_angle_rad = number_in(*t, "rotor_angle_deg", 0.0, -360.0, 360.0, "degrees") * deg;
   s.time_s = number_in(*t, "time_s", 0.0, -1e6, 1e6, "s");
-  t->finish();
+  std::vector<std::pair<std::string, std::string>> not_applicable;
+  if (s.kind == StudyKind::time_stepping) {
+    s.steps_per_period = integer_in(*t, "steps_per_period", 60, 4, 100000);
+    s.periods = number_in(*t, "periods", 1.0, 0.0, 10000.0, "periods");
+    if (s.periods <= 0.0) throw t->error("periods", "must be greater than 0");
+    s.discard_periods = number_in(*t, "discard_periods", 0.0, 0.0, 10000.0, "periods");
+    if (s.discard_periods >= s.periods)
+      throw t->error(
+          "discard_periods",
+          fmt::format("must be below periods ({}): something must be left to analyse", s.periods));
+    s.motion =
+        static_cast<Motion>(choice(*t, "motion", {"slip", "speed", "locked"}, std::size_t{0}));
+    if (s.motion == Motion::slip) {
+      s.slip = number_in(*t, "slip", 0.0, -1.0, 2.0, "(per unit)");
+      not_applicable.emplace_back("speed_rpm", "motion = \"slip\" takes slip");
+    } else if (s.motion == Motion::speed) {
+      s.speed_rpm = number_in(*t, "speed_rpm", std::nullopt, -1e5, 1e5, "rpm");
+      not_applicable.emplace_back("slip", "motion = \"speed\" takes speed_rpm");
+    } else {
+      not_applicable.emplace_back("slip", "a locked rotor does not turn");
+      not_applicable.emplace_back("speed_rpm", "a locked rotor does not turn");
+    }
+    s.band_aligned_steps = t->boolean("band_aligned_steps").value_or(false);
+  } else {
+    for (const char* k : {"steps_per_period", "periods", "discard_periods", "motion", "slip",
+                          "speed_rpm", "band_aligned_steps"})
+      not_applicable.emplace_back(
+          k, "a static study solves one instant; use kind = \"time_stepping\"");
+  }
+  t->finish(not_applicable);
   return s;
+}
+
+RotorCurrentSpec parse_rotor_currents(std::optional<TableReader> t) {
+  RotorCurrentSpec r;
+  if (!t) return r;
+  r.bar_rms_a = number_in(*t, "bar_rms_a", std::nullopt, 0.0, 1e7, "A");
+  r.angle_rad = number_in(*t, "angle_deg", std::nullopt, -360.0, 360.0, "degrees") * deg;
+  t->finish();
+  return r;
 }
 
 SolverSpec parse_solver(std::optional<TableReader> t) {
@@ -395,6 +433,10 @@ Case read_case_text(std::string_view text, const std::string& file_name) {
   c.supply = parse_supply(required_table(root, "supply", "at least rms_a"));
   c.mesh = parse_mesh(root.table("mesh"));
   c.study = parse_study(root.table("study"));
+  c.rotor_currents = parse_rotor_currents(root.table("rotor_currents"));
+  if (c.rotor_currents.bar_rms_a > 0.0 && c.rotor.kind != RotorKind::cage)
+    throw c.sources.error("rotor_currents.bar_rms_a",
+                          "a smooth rotor has no bars to carry currents");
   c.solver = parse_solver(root.table("solver"));
   c.output = parse_output(root.table("output"));
   root.finish();

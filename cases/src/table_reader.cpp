@@ -131,6 +131,14 @@ std::optional<std::string> TableReader::string(const std::string& key) {
   throw error(key, fmt::format("expected a string, found {}", type_name(*n)));
 }
 
+std::optional<bool> TableReader::boolean(const std::string& key) {
+  mark(key);
+  const auto* n = static_cast<const toml::node*>(node(key));
+  if (!n) return std::nullopt;
+  if (auto v = n->value_exact<bool>()) return *v;
+  throw error(key, fmt::format("expected true or false, found {}", type_name(*n)));
+}
+
 std::optional<std::vector<double>> TableReader::number_array(const std::string& key) {
   mark(key);
   const auto* n = static_cast<const toml::node*>(node(key));

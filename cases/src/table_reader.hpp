@@ -27,6 +27,7 @@ class TableReader {
   std::optional<double> number(const std::string& key);
   std::optional<long long> integer(const std::string& key);
   std::optional<std::string> string(const std::string& key);
+  std::optional<bool> boolean(const std::string& key);
   std::optional<std::vector<double>> number_array(const std::string& key);
   std::optional<TableReader> table(const std::string& key);
   std::vector<std::string> keys() const;

@@ -72,6 +72,7 @@ BandMesh build_moving_band(const Mesh& mesh, double rotor_angle_rad) {
   double k = std::floor(shift);
   if (shift - k > 1.0 - 1e-9) k += 1.0;
   const int k_int = static_cast<int>(k);
+  band.shift = k_int;
 
   const auto stator_vertex = [&](int i) {
     return stator_node(mesh, stator.vertices[sector ? i : i % n]);

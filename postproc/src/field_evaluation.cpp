@@ -73,21 +73,31 @@ AirgapSamples sample_airgap(const Assembler& assembler, const Eigen::VectorXd& x
     const long guess = std::min(intervals - 1, static_cast<long>(std::floor(theta / pitch)));
     bool found = false;
     // Band triangles come in pairs per stator interval; the point lies in this pair or beside it.
-    for (long d : {0L, -1L, 1L, -2L, 2L}) {
-      const long i = ((guess + d) % intervals + intervals) % intervals;
-      for (long k = 0; k < 2 && !found; ++k) {
-        const std::size_t e = first_band + static_cast<std::size_t>(2 * i + k);
-        double xi = 0, eta = 0;
-        if (!locate(elements[e].nodes, p, xi, eta)) continue;
-        const Vec2 b = flux_density_at(elements[e].nodes, assembler.local_values(e, x), xi, eta);
-        const Vec2 radial(std::cos(theta), std::sin(theta)),
-            tangential(-std::sin(theta), std::cos(theta));
-        s.theta_rad.push_back(theta);
-        s.b_r_tesla.push_back(b.dot(radial));
-        s.b_theta_tesla.push_back(b.dot(tangential));
-        found = true;
+    // In a sector model the last triangles reach past the sector edge (the rotor has turned):
+    // a point near θ = 0 may lie in their image one sector on, where the field is ±B.
+    const auto search = [&](const Vec2& point, long near, double sign) {
+      for (long d : {0L, -1L, 1L, -2L, 2L}) {
+        const long i = ((near + d) % intervals + intervals) % intervals;
+        for (long k = 0; k < 2; ++k) {
+          const std::size_t e = first_band + static_cast<std::size_t>(2 * i + k);
+          double xi = 0, eta = 0;
+          if (!locate(elements[e].nodes, point, xi, eta)) continue;
+          const Vec2 b = flux_density_at(elements[e].nodes, assembler.local_values(e, x), xi, eta);
+          const double phi = std::atan2(point.y(), point.x());
+          const Vec2 radial(std::cos(phi), std::sin(phi)),
+              tangential(-std::sin(phi), std::cos(phi));
+          s.theta_rad.push_back(theta);
+          s.b_r_tesla.push_back(sign * b.dot(radial));
+          s.b_theta_tesla.push_back(sign * b.dot(tangential));
+          return true;
+        }
       }
-      if (found) break;
+      return false;
+    };
+    found = search(p, guess, 1.0);
+    if (!found && mesh.symmetry.sectors > 1) {
+      const Vec2 image = Eigen::Rotation2Dd(mesh.symmetry.sector_angle_rad) * p;
+      found = search(image, intervals - 1, mesh.symmetry.antiperiodic ? -1.0 : 1.0);
     }
     if (!found) throw std::runtime_error("an airgap sample point lies in no band triangle");
   }

@@ -12,6 +12,18 @@ struct ResultsFile::State {
 
 namespace {
 
+// Whether every component of `path` exists (H5Lexists fails on a missing intermediate group).
+bool path_exists(H5::H5File& file, const std::string& path) {
+  std::size_t at = 0;
+  while (true) {
+    const auto slash = path.find('/', at);
+    const std::string prefix = slash == std::string::npos ? path : path.substr(0, slash);
+    if (!prefix.empty() && !file.nameExists(prefix)) return false;
+    if (slash == std::string::npos) return true;
+    at = slash + 1;
+  }
+}
+
 // Creates the groups on the way to `path`; returns the dataset's own name.
 std::string ensure_groups(H5::H5File& file, const std::string& path) {
   std::size_t at = 0;
@@ -19,7 +31,7 @@ std::string ensure_groups(H5::H5File& file, const std::string& path) {
     const auto slash = path.find('/', at);
     if (slash == std::string::npos) return path;
     const std::string group = path.substr(0, slash);
-    if (!file.nameExists(group)) file.createGroup(group);
+    if (!path_exists(file, group)) file.createGroup(group);
     at = slash + 1;
   }
 }
@@ -47,7 +59,7 @@ template <typename T>
 void write_dataset(H5::H5File& file, const std::string& path, const std::vector<T>& data,
                    const H5::PredType& type, const std::string& units, std::size_t columns) {
   ensure_groups(file, path);
-  if (file.nameExists(path)) file.unlink(path);
+  if (path_exists(file, path)) file.unlink(path);
   const hsize_t rows = columns ? data.size() / columns : 0;
   const hsize_t dims[2] = {rows, columns};
   H5::DataSpace space(columns > 1 ? 2 : 1, dims);
@@ -60,6 +72,7 @@ void write_dataset(H5::H5File& file, const std::string& path, const std::vector<
 }  // namespace
 
 ResultsFile::ResultsFile(const std::string& path) : state_(std::make_unique<State>()) {
+  H5::Exception::dontPrint();  // errors become exceptions with their own message
   try {
     state_->file = H5::H5File(path, H5F_ACC_TRUNC);
   } catch (const H5::Exception& e) {
@@ -87,7 +100,7 @@ void ResultsFile::write(const std::string& path, const std::vector<int>& data,
 void ResultsFile::write_strings(const std::string& path, const std::vector<std::string>& data) {
   H5::H5File& file = state_->file;
   ensure_groups(file, path);
-  if (file.nameExists(path)) file.unlink(path);
+  if (path_exists(file, path)) file.unlink(path);
   H5::StrType type(H5::PredType::C_S1, H5T_VARIABLE);
   const hsize_t dims[1] = {data.size()};
   H5::DataSet set = file.createDataSet(path, type, H5::DataSpace(1, dims));
@@ -121,6 +134,82 @@ void ResultsFile::attribute(const std::string& object, const std::string& name, 
     o.createAttribute(name, H5::PredType::NATIVE_LONG, H5::DataSpace(H5S_SCALAR))
         .write(H5::PredType::NATIVE_LONG, &value);
   });
+}
+
+std::unique_ptr<ResultsFile> ResultsFile::open_existing(const std::string& path) {
+  std::unique_ptr<ResultsFile> f(new ResultsFile());
+  f->state_ = std::make_unique<State>();
+  try {
+    f->state_->file = H5::H5File(path, H5F_ACC_RDWR);
+  } catch (const H5::Exception& e) {
+    throw std::runtime_error("cannot open " + path + " to resume: " + e.getDetailMsg());
+  }
+  return f;
+}
+
+bool ResultsFile::exists(const std::string& path) const {
+  return path_exists(state_->file, path);
+}
+
+void ResultsFile::append_row(const std::string& path, const std::vector<double>& row,
+                             const std::string& units) {
+  H5::H5File& file = state_->file;
+  const hsize_t width = row.size();
+  if (!path_exists(file, path)) {
+    ensure_groups(file, path);
+    const hsize_t dims[2] = {0, width}, max_dims[2] = {H5S_UNLIMITED, width};
+    H5::DataSpace space(2, dims, max_dims);
+    H5::DSetCreatPropList props;
+    const hsize_t chunk[2] = {1, std::max<hsize_t>(1, width)};
+    props.setChunk(2, chunk);
+    H5::DataSet set = file.createDataSet(path, H5::PredType::NATIVE_DOUBLE, space, props);
+    H5::StrType str(H5::PredType::C_S1, units.size() + 1);
+    set.createAttribute("units", str, H5::DataSpace(H5S_SCALAR)).write(str, units.c_str());
+  }
+  H5::DataSet set = file.openDataSet(path);
+  hsize_t dims[2];
+  set.getSpace().getSimpleExtentDims(dims);
+  if (dims[1] != width) throw std::runtime_error("row of the wrong length for " + path);
+  const hsize_t grown[2] = {dims[0] + 1, width};
+  set.extend(grown);
+  H5::DataSpace space = set.getSpace();
+  const hsize_t start[2] = {dims[0], 0}, count[2] = {1, width};
+  space.selectHyperslab(H5S_SELECT_SET, count, start);
+  H5::DataSpace memory(2, count);
+  set.write(row.data(), H5::PredType::NATIVE_DOUBLE, memory, space);
+}
+
+std::size_t ResultsFile::rows(const std::string& path) const {
+  if (!path_exists(state_->file, path)) return 0;
+  hsize_t dims[2] = {0, 0};
+  state_->file.openDataSet(path).getSpace().getSimpleExtentDims(dims);
+  return dims[0];
+}
+
+void ResultsFile::truncate_rows(const std::string& path, std::size_t rows) {
+  if (!path_exists(state_->file, path)) return;
+  H5::DataSet set = state_->file.openDataSet(path);
+  hsize_t dims[2];
+  set.getSpace().getSimpleExtentDims(dims);
+  if (dims[0] <= rows) return;
+  const hsize_t kept[2] = {rows, dims[1]};
+  set.extend(kept);
+}
+
+std::vector<double> ResultsFile::read(const std::string& path) const {
+  H5::DataSet set = state_->file.openDataSet(path);
+  const hssize_t n = set.getSpace().getSimpleExtentNpoints();
+  std::vector<double> out(static_cast<std::size_t>(n));
+  if (n > 0) set.read(out.data(), H5::PredType::NATIVE_DOUBLE);
+  return out;
+}
+
+long ResultsFile::read_long_attribute(const std::string& object, const std::string& name) const {
+  long value = 0;
+  with_object(state_->file, object, [&](H5::H5Object& o) {
+    o.openAttribute(name).read(H5::PredType::NATIVE_LONG, &value);
+  });
+  return value;
 }
 
 void ResultsFile::flush() {

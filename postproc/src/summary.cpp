@@ -49,6 +49,28 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                  {"residual_history", s.residual_history},
                  {"step_history", s.step_history}};
   if (!s.failure.empty()) j["solver"]["failure"] = s.failure;
+  if (s.time_stepping)
+    j["study"] = {{"kind", "time_stepping"},
+                  {"dt_s", s.dt_s},
+                  {"steps_per_period", s.steps_per_period},
+                  {"discarded_steps", s.discarded_steps},
+                  {"mechanical_speed_rpm", s.mechanical_speed_rpm},
+                  {"band_pitches_per_step", s.band_pitches_per_step}};
+  if (s.torque_available) {
+    json harmonics = json::array();
+    for (const auto& [order, amplitude] : s.torque_harmonics)
+      harmonics.push_back({{"order", order}, {"amplitude_nm", amplitude}});
+    j["torque"] = {
+        {"mean_nm", s.torque_mean_nm},       {"min_nm", s.torque_min_nm},
+        {"max_nm", s.torque_max_nm},         {"peak_to_peak_nm", s.torque_max_nm - s.torque_min_nm},
+        {"ripple_pct", s.torque_ripple_pct}, {"harmonics", harmonics},
+        {"method", "Arkkio band integral"}};
+  }
+  j["rotor_currents"] = {
+      {"bar_rms_a", s.bar_rms_a},
+      {"note", s.bar_rms_a > 0 ? "imposed on the bars, not induced: the cage's own "
+                                 "currents are not modelled"
+                               : "none: the cage's own currents are not modelled"}};
   std::ofstream out(path);
   out << j.dump(2) << "\n";
   if (!out) throw std::runtime_error("cannot write " + path);

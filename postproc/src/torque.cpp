@@ -28,10 +28,11 @@ double arkkio_torque_nm(const Assembler& assembler, const Eigen::VectorXd& x, co
   return stack_length_m * mesh.symmetry.sectors * integral / (mu0 * thickness);
 }
 
-double total_coenergy_j(const Assembler& assembler, const Eigen::VectorXd& x, const RegionModel& model,
-                        double stack_length_m, int sectors) {
+double total_coenergy_j(const Assembler& assembler, const Eigen::VectorXd& x,
+                        const RegionModel& model, double stack_length_m, int sectors) {
   double total = 0.0;
-  for (const RegionEnergy& r : region_energies(assembler, x, model, model.material.size(), stack_length_m, sectors))
+  for (const RegionEnergy& r :
+       region_energies(assembler, x, model, model.material.size(), stack_length_m, sectors))
     total += r.coenergy_j;
   return total;
 }

@@ -6,9 +6,15 @@
 #include <numbers>
 
 #include "../solver/solver_fixtures.hpp"
+#include "cases/case_reader.hpp"
 #include "postproc/field_evaluation.hpp"
+#include "postproc/spectrum.hpp"
 #include "postproc/torque.hpp"
 #include "solver/magnetostatic_system.hpp"
+#include "solver/region_model.hpp"
+#include "solver/rotor_currents.hpp"
+#include "solver/winding_sources.hpp"
+#include "test_support.hpp"
 
 using namespace gapflux;
 
@@ -18,8 +24,8 @@ constexpr double pi = std::numbers::pi;
 constexpr int p = 3;
 constexpr double mu_r = 1000.0;
 // Rotor iron, rotor current layer, air, band, air, stator current layer, stator iron.
-constexpr double R_r = 0.050, R_a = 0.0502, R_bi = 0.05040, R_bo = 0.05060, R_1 = 0.0508, R_s = 0.051,
-                 R_o = 0.070;
+constexpr double R_r = 0.050, R_a = 0.0502, R_bi = 0.05040, R_bo = 0.05060, R_1 = 0.0508,
+                 R_s = 0.051, R_o = 0.070;
 
 struct Sheet {
   double j0_a_per_m2;
@@ -45,11 +51,20 @@ Mesh two_sheet_mesh() {
 }
 
 RegionModel two_sheet_model(const Mesh& mesh, const Sheet* stator, const Sheet* rotor) {
-  static const Material air = [] { Material m; m.relative_permeability = 1.0; return m; }();
-  static const Material iron = [] { Material m; m.relative_permeability = mu_r; return m; }();
+  static const Material air = [] {
+    Material m;
+    m.relative_permeability = 1.0;
+    return m;
+  }();
+  static const Material iron = [] {
+    Material m;
+    m.relative_permeability = mu_r;
+    return m;
+  }();
   RegionModel model;
   for (const MeshRegion& r : mesh.regions) {
-    const bool is_iron = r.tag.kind == RegionKind::rotor_iron || r.tag.kind == RegionKind::stator_iron;
+    const bool is_iron =
+        r.tag.kind == RegionKind::rotor_iron || r.tag.kind == RegionKind::stator_iron;
     model.material.push_back(is_iron ? &iron : &air);
     ElementSource s;
     if (r.tag.kind == RegionKind::coil_side && stator) s.function = sheet, s.context = stator;
@@ -75,11 +90,14 @@ double closed_form_torque(double js0, double jr0, double delta, double stack_m) 
   const auto drm = [](double r) { return -p * std::pow(r, -p - 1); };
   M(0, 0) = rp(R_r), M(0, 1) = -rp(R_r), M(0, 2) = -rm(R_r);
   M(1, 0) = drp(R_r) / mu_r, M(1, 1) = -drp(R_r), M(1, 2) = -drm(R_r);
-  M(2, 1) = rp(R_1), M(2, 2) = rm(R_1), M(2, 3) = -rp(R_1), M(2, 4) = -rm(R_1), rhs(2) = K * R_1 * R_1;
-  M(3, 1) = drp(R_1), M(3, 2) = drm(R_1), M(3, 3) = -drp(R_1), M(3, 4) = -drm(R_1), rhs(3) = 2 * K * R_1;
-  M(4, 3) = rp(R_s), M(4, 4) = rm(R_s), M(4, 5) = -rp(R_s), M(4, 6) = -rm(R_s), rhs(4) = -K * R_s * R_s;
+  M(2, 1) = rp(R_1), M(2, 2) = rm(R_1), M(2, 3) = -rp(R_1), M(2, 4) = -rm(R_1),
+       rhs(2) = K * R_1 * R_1;
+  M(3, 1) = drp(R_1), M(3, 2) = drm(R_1), M(3, 3) = -drp(R_1), M(3, 4) = -drm(R_1),
+       rhs(3) = 2 * K * R_1;
+  M(4, 3) = rp(R_s), M(4, 4) = rm(R_s), M(4, 5) = -rp(R_s), M(4, 6) = -rm(R_s),
+       rhs(4) = -K * R_s * R_s;
   M(5, 3) = drp(R_s), M(5, 4) = drm(R_s), M(5, 5) = -drp(R_s) / mu_r, M(5, 6) = -drm(R_s) / mu_r,
-        rhs(5) = -2 * K * R_s;
+       rhs(5) = -2 * K * R_s;
   M(6, 5) = rp(R_o), M(6, 6) = rm(R_o);
   const Eigen::Matrix<double, 7, 1> u = M.fullPivLu().solve(rhs);
   const double integral = u(1) * (std::pow(R_a, p + 2) - std::pow(R_r, p + 2)) / (p + 2) +
@@ -89,7 +107,8 @@ double closed_form_torque(double js0, double jr0, double delta, double stack_m) 
 
 }  // namespace
 
-TEST_CASE("two current sheets turning together: Arkkio torque against the closed form", "[postproc][torque]") {
+TEST_CASE("two current sheets turning together: Arkkio torque against the closed form",
+          "[postproc][torque]") {
   const Mesh mesh = two_sheet_mesh();
   const double f = 50.0, slip = 0.05, omega = 2 * pi * f;
   const double omega_mech = (1 - slip) * omega / p, omega_slip = slip * omega;
@@ -123,18 +142,21 @@ TEST_CASE("two current sheets turning together: Arkkio torque against the closed
         energy += s.b_r_tesla[j] * s.b_r_tesla[j];
       }
       const double n_s = s.theta_rad.size();
-      const double fundamental = 2.0 * (c * c + sn * sn) / (n_s * n_s);  // amplitude²/2: its mean square
+      const double fundamental =
+          2.0 * (c * c + sn * sn) / (n_s * n_s);  // amplitude²/2: its mean square
       const double rest = std::max(0.0, energy / n_s - fundamental);
       CHECK(std::sqrt(rest) < 5e-3 * std::sqrt(fundamental));
     }
   }
   const double mean = sum / steps;
-  INFO("closed form " << exact << " N·m/m, Arkkio mean " << mean << ", min " << t_min << ", max " << t_max);
+  INFO("closed form " << exact << " N·m/m, Arkkio mean " << mean << ", min " << t_min << ", max "
+                      << t_max);
   CHECK(mean == Approx(exact).epsilon(5e-3));
   CHECK((t_max - t_min) / std::abs(mean) < 2e-3);
 }
 
-TEST_CASE("a rotor turned by one band pitch in a rotation-invariant gap gives the same field", "[postproc][band]") {
+TEST_CASE("a rotor turned by one band pitch in a rotation-invariant gap gives the same field",
+          "[postproc][band]") {
   const Mesh mesh = two_sheet_mesh();
   const Sheet stator{2e6, 0.3};
   const RegionModel model = two_sheet_model(mesh, &stator, nullptr);
@@ -153,10 +175,111 @@ TEST_CASE("a rotor turned by one band pitch in a rotation-invariant gap gives th
   }
   // Rotor ring vertex j, turned by one pitch, sits where vertex j + 1 sat.
   const auto& ring = mesh.rotor_ring.vertices;
-  for (std::size_t j = 0; j + 1 < ring.size(); ++j) ring_diff = std::max(ring_diff, std::abs(a1[ring[j]] - a0[ring[j + 1]]));
+  for (std::size_t j = 0; j + 1 < ring.size(); ++j)
+    ring_diff = std::max(ring_diff, std::abs(a1[ring[j]] - a0[ring[j + 1]]));
   INFO("scale " << scale << " stator " << stator_diff << " ring " << ring_diff);
   // To solver tolerance: ‖r‖/‖f‖ < 1e-12 leaves A accurate to about 1e-8 of its largest value
   // here (conditioning of a 1000:1 permeability contrast); 1e-7 allows for that, nothing more.
   CHECK(stator_diff < 1e-7 * scale);
   CHECK(ring_diff < 1e-7 * scale);
+}
+
+namespace {
+
+// A coarse version of the 2-pole demo (half model), for the slotted-torque checks.
+struct Slotted {
+  Case c;
+  Lamination lam;
+  Mesh mesh;
+  RegionMaterials materials;
+};
+
+Slotted slotted() {
+  std::string text = test::read_text(test::example("compressor_2p24s.toml"));
+  text.replace(text.find("band_nodes = 1560"), 17,
+               "band_nodes = 720\nairgap_size_mm = 0.3\niron_size_mm = 4.0");
+  Slotted s;
+  s.c = read_case_text(text, "compressor.toml");
+  s.lam = build_lamination(s.c);
+  s.mesh = mesh_lamination(s.lam, resolve_mesh_settings(s.c, s.lam));
+  s.materials = resolve_region_materials(s.c);
+  return s;
+}
+
+}  // namespace
+
+TEST_CASE("Arkkio torque against virtual work on a saturated slotted machine",
+          "[postproc][torque]") {
+  // Virtual work: T = ∂W'/∂θ_r at constant currents (the bars keep their currents as they
+  // turn), by a central difference of the co-energy over ±¼ band pitch, inside one band
+  // topology. Both are discretisations of the same torque: within 1 % (the issue's tolerance).
+  Slotted s = slotted();
+  s.c.rotor_currents.bar_rms_a = 120.0;
+  s.c.rotor_currents.angle_rad = 150.0 * pi / 180.0;
+  const CoilRegions coils = coil_regions(s.mesh, s.lam.winding);
+  const double pitch = s.mesh.stator_ring.pitch_rad, angle = 40.5 * pitch, delta = 0.25 * pitch;
+  std::vector<double> j = region_current_density(coils, {8.0, -4.0, -4.0});  // into saturation
+  const std::vector<double> bars =
+      bar_current_density(s.mesh, s.c, s.lam.winding, s.lam.bars, 0.0, angle);
+  for (std::size_t r = 0; r < j.size(); ++r) j[r] += bars[r];
+  const RegionModel model = make_region_model(s.mesh, s.materials, j);
+  NewtonSettings settings;
+  settings.residual_tolerance = 1e-11;
+  const auto solved = [&](double a) {
+    auto system = std::make_unique<MagnetostaticSystem>(s.mesh, a);
+    system->solve(model, settings);
+    return system;
+  };
+  const double L = s.c.machine.stack_length_m;
+  const auto at = solved(angle);
+  double peak = 0.0;
+  for (double b : evaluate_element_fields(at->assembler(), at->x(), model).b_abs_tesla)
+    peak = std::max(peak, b);
+  REQUIRE(peak > 1.8);  // saturated
+  const double arkkio = arkkio_torque_nm(at->assembler(), at->x(), s.mesh, L);
+  const auto plus = solved(angle + delta), minus = solved(angle - delta);
+  const double w_plus =
+      total_coenergy_j(plus->assembler(), plus->x(), model, L, s.mesh.symmetry.sectors);
+  const double w_minus =
+      total_coenergy_j(minus->assembler(), minus->x(), model, L, s.mesh.symmetry.sectors);
+  const double virtual_work = (w_plus - w_minus) / (2 * delta);
+  INFO("Arkkio " << arkkio << " N·m, virtual work " << virtual_work << " N·m");
+  REQUIRE(std::abs(arkkio) > 0.5);
+  CHECK(virtual_work == Approx(arkkio).epsilon(1e-2));
+}
+
+TEST_CASE("slotting torque repeats with the rotor slot pitch", "[postproc][torque]") {
+  // Fixed (DC) stator currents, no bar currents: the geometry repeats every rotor slot pitch
+  // 2π/R, so the torque over two pitches holds only multiples of R per revolution (common
+  // practice, no source) — checked on the computed torque, 12 positions over two pitches.
+  const Slotted s = slotted();
+  const CoilRegions coils = coil_regions(s.mesh, s.lam.winding);
+  const RegionModel model =
+      make_region_model(s.mesh, s.materials, region_current_density(coils, {4.0, -2.0, -2.0}));
+  const int bars = s.lam.bars;
+  const double bar_pitch = 2 * pi / bars;
+  REQUIRE(std::abs(bar_pitch / s.mesh.stator_ring.pitch_rad -
+                   std::round(bar_pitch / s.mesh.stator_ring.pitch_rad)) < 1e-9);
+  std::vector<double> torque;
+  const int n = 12;
+  for (int k = 0; k < n; ++k) {
+    MagnetostaticSystem system(s.mesh, 2 * bar_pitch * k / n);
+    NewtonSettings settings;
+    settings.residual_tolerance = 1e-11;
+    system.solve(model, settings);
+    torque.push_back(
+        arkkio_torque_nm(system.assembler(), system.x(), s.mesh, s.c.machine.stack_length_m));
+  }
+  const std::vector<double> amplitude = amplitude_spectrum(torque);  // bin k: k·R/2 per revolution
+  double even = 0.0, odd = 0.0;
+  for (std::size_t k = 1; k < amplitude.size(); ++k)
+    (k % 2 ? odd : even) = std::max(k % 2 ? odd : even, amplitude[k]);
+  INFO("largest multiple-of-R component " << even << " N·m, largest other " << odd << " N·m");
+  REQUIRE(even > 1e-4);  // there is a slotting torque to look at
+  // The geometry repeats but the unstructured rotor mesh does not (Gmsh meshes the whole
+  // sector), so one pitch on sits a different discretisation: the other orders stay at the
+  // discretisation level, measured at about 1e-3 of the slotting torque; 1e-2 bounds that and
+  // still catches any real non-periodicity (which would show at the 10 % level).
+  CHECK(odd < 1e-2 * even);
+  CHECK(torque[n / 2] == Approx(torque[0]).epsilon(1e-2));
 }

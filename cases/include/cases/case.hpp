@@ -128,12 +128,28 @@ struct MeshSpec {
   Symmetry symmetry = Symmetry::automatic;
 };
 
-enum class StudyKind { static_field };
+enum class StudyKind { static_field, time_stepping };
+enum class Motion { slip, speed, locked };
 
 struct StudySpec {
   StudyKind kind = StudyKind::static_field;
-  double rotor_angle_rad = 0.0;
-  double time_s = 0.0;
+  double rotor_angle_rad = 0.0;  // at time_s
+  double time_s = 0.0;           // the instant (static) or the start (time stepping)
+  // time stepping
+  int steps_per_period = 60;
+  double periods = 1.0;
+  double discard_periods = 0.0;  // start-up left out of the statistics and spectra
+  Motion motion = Motion::slip;
+  double slip = 0.0;
+  double speed_rpm = 0.0;
+  bool band_aligned_steps = false;  // pick the step count so the rotor moves whole band pitches
+};
+
+// Currents imposed on the cage bars (not induced): a balanced set at slip frequency.
+struct RotorCurrentSpec {
+  double bar_rms_a = 0.0;  // 0: no bar currents
+  double angle_rad = 0.0;  // electrical angle of the bar-current wave behind the stator's
+                           // current wave; 90°…180° motors (forward torque)
 };
 
 struct SolverSpec {
@@ -157,6 +173,7 @@ struct Case {
   SupplySpec supply;
   MeshSpec mesh;
   StudySpec study;
+  RotorCurrentSpec rotor_currents;
   SolverSpec solver;
   OutputSpec output;
   SourceMap sources;

@@ -23,6 +23,7 @@ struct BandElement {
 
 struct BandMesh {
   double rotor_angle_rad = 0.0;
+  int shift = 0;  // whole band pitches the rotor ring is turned by (the triangulation's topology)
   int n_extra_nodes = 0;  // order 2: mid-edge nodes of the cross edges, owned by the band
   std::vector<BandElement> elements;
 };

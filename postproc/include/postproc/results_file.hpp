@@ -11,6 +11,8 @@ namespace gapflux {
 class ResultsFile {
  public:
   explicit ResultsFile(const std::string& path);  // creates (truncates) the file
+  // Opens an existing file for appending (resuming a run); throws if it cannot.
+  static std::unique_ptr<ResultsFile> open_existing(const std::string& path);
   ~ResultsFile();
   ResultsFile(const ResultsFile&) = delete;
   ResultsFile& operator=(const ResultsFile&) = delete;
@@ -25,9 +27,20 @@ class ResultsFile {
   void attribute(const std::string& object, const std::string& name, const std::string& value);
   void attribute(const std::string& object, const std::string& name, double value);
   void attribute(const std::string& object, const std::string& name, long value);
+  // Per-step rows: a 2-D dataset (rows × row size) that grows by one row per call.
+  void append_row(const std::string& path, const std::vector<double>& row,
+                  const std::string& units);
+  // Rows kept so far; 0 if the dataset does not exist.
+  std::size_t rows(const std::string& path) const;
+  // Drops rows past `rows` (a run killed between its appends and its `steps_done` update).
+  void truncate_rows(const std::string& path, std::size_t rows);
+  std::vector<double> read(const std::string& path) const;
+  long read_long_attribute(const std::string& object, const std::string& name) const;
+  bool exists(const std::string& path) const;
   void flush();
 
  private:
+  ResultsFile() = default;
   struct State;
   std::unique_ptr<State> state_;
 };

@@ -29,6 +29,14 @@ struct RunSummary {
   double energy_j = 0.0, coenergy_j = 0.0;
   double airgap_radius_m = 0.0;
   double b_peak_tesla = 0.0;
+  // time stepping (steps > 1)
+  bool time_stepping = false;
+  double dt_s = 0.0, mechanical_speed_rpm = 0.0, slip = 0.0;
+  int steps_per_period = 0, discarded_steps = 0, band_pitches_per_step = -1;
+  bool torque_available = false;
+  double torque_mean_nm = 0, torque_min_nm = 0, torque_max_nm = 0, torque_ripple_pct = 0;
+  std::vector<std::pair<double, double>> torque_harmonics;  // (order in multiples of f, amplitude)
+  double bar_rms_a = 0.0;                                   // imposed rotor currents, 0 if none
   // solver
   int steps = 0, newton_iterations = 0;
   bool converged = false;

@@ -14,7 +14,7 @@ double arkkio_torque_nm(const Assembler& assembler, const Eigen::VectorXd& x, co
                         double stack_length_m);
 
 // Total co-energy (J, whole machine) of a solved state.
-double total_coenergy_j(const Assembler& assembler, const Eigen::VectorXd& x, const RegionModel& model,
-                        double stack_length_m, int sectors);
+double total_coenergy_j(const Assembler& assembler, const Eigen::VectorXd& x,
+                        const RegionModel& model, double stack_length_m, int sectors);
 
 }  // namespace gapflux

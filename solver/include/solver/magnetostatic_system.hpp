@@ -17,6 +17,10 @@ namespace gapflux {
 class MagnetostaticSystem {
  public:
   MagnetostaticSystem(const Mesh& mesh, double rotor_angle_rad);
+  // Warm start from a solution of another rotor position: the mesh DOFs carry over (nodes move
+  // with their side); when the band's topology changed (another whole-pitch shift), its own
+  // mid-edge DOFs belong to other edges and are set to the mean of their edge's ends.
+  void warm_start(const Eigen::VectorXd& previous, int previous_shift);
   // Throws NumericalError; x() keeps the last iterate either way.
   NewtonReport solve(const RegionModel& model, const NewtonSettings& settings);
 

@@ -1,0 +1,305 @@
+#include "transient_study.hpp"
+
+#include <fmt/format.h>
+#include <unistd.h>
+
+#include <chrono>
+#include <cmath>
+#include <filesystem>
+#include <numbers>
+
+#include "cases/case_reader.hpp"
+#include "postproc/field_evaluation.hpp"
+#include "postproc/result_sets.hpp"
+#include "postproc/spectrum.hpp"
+#include "postproc/summary.hpp"
+#include "postproc/torque.hpp"
+#include "postproc/vtu_writer.hpp"
+#include "solver/magnetostatic_system.hpp"
+#include "solver/region_model.hpp"
+#include "solver/rotor_currents.hpp"
+
+namespace gapflux {
+namespace {
+
+namespace fs = std::filesystem;
+
+double now_s() {
+  return std::chrono::duration<double>(std::chrono::steady_clock::now().time_since_epoch()).count();
+}
+
+std::array<double, 3> phase_currents(const Case& c, double t) {
+  const double omega = 2.0 * std::numbers::pi * c.supply.frequency_hz;
+  std::array<double, 3> i{};
+  for (int k = 0; k < 3; ++k)
+    i[k] = std::sqrt(2.0) * c.supply.phases[k].rms_a *
+           std::cos(omega * t + c.supply.phases[k].angle_rad);
+  return i;
+}
+
+std::string duration_text(double seconds) {
+  const long s = std::lround(seconds);
+  if (s < 60) return fmt::format("{}s", s);
+  if (s < 3600) return fmt::format("{}m{:02d}s", s / 60, s % 60);
+  return fmt::format("{}h{:02d}m", s / 3600, (s / 60) % 60);
+}
+
+}  // namespace
+
+TransientStudy::TransientStudy(std::string case_path, std::string out_dir, bool resume)
+    : case_path_(std::move(case_path)), out_dir_(std::move(out_dir)), resume_(resume) {}
+
+void TransientStudy::run() {
+  wall_start_s_ = now_s();
+  set_up();
+  const int first = open_results();
+  const bool terminal = isatty(fileno(stderr));
+  for (int n = first; n < grid_.steps; ++n) {
+    try {
+      step(n);
+    } catch (const std::exception& e) {
+      // Every finished step is in results.h5 already; the summary says where it stopped.
+      finish(fmt::format("step {} of {}: {}", n + 1, grid_.steps, e.what()));
+      throw;
+    }
+    const double elapsed = now_s() - wall_start_s_;
+    const double left = elapsed / (n + 1 - first) * (grid_.steps - n - 1);
+    if (terminal) {
+      const int width = 30, filled = width * (n + 1) / grid_.steps;
+      fmt::print(stderr, "\r  [{}{}] step {}/{}, newton {}, {} left   ", std::string(filled, '#'),
+                 std::string(width - filled, '.'), n + 1, grid_.steps, newton_last_,
+                 duration_text(left));
+    } else {
+      fmt::print(stderr, "step {}/{} t = {:.6f} s, newton {}, elapsed {}\n", n + 1, grid_.steps,
+                 grid_.time(n), newton_last_, duration_text(elapsed));
+    }
+  }
+  if (terminal) fmt::print(stderr, "\n");
+  finish("");
+}
+
+void TransientStudy::set_up() {
+  case_ = read_case_file(case_path_);
+  materials_ = resolve_region_materials(case_);
+  lamination_ = build_lamination(case_);
+  mesh_ = mesh_lamination(lamination_, resolve_mesh_settings(case_, lamination_));
+  coils_ = coil_regions(mesh_, lamination_.winding);
+  grid_ = make_time_grid(case_, mesh_.stator_ring.pitch_rad);
+  airgap_samples_ =
+      case_.output.airgap_samples > 0 ? case_.output.airgap_samples : default_airgap_samples(mesh_);
+}
+
+int TransientStudy::open_results() {
+  fs::create_directories(fs::path(out_dir_) / "fields");
+  const std::string path = (fs::path(out_dir_) / "results.h5").string();
+  if (resume_ && fs::exists(path)) {
+    h5_ = ResultsFile::open_existing(path);
+    const long done = h5_->read_long_attribute("/", "steps_done");
+    if (h5_->rows("mesh/nodes") != mesh_.nodes.size() ||
+        static_cast<long>(h5_->read_long_attribute("/", "steps_total")) != grid_.steps)
+      throw std::runtime_error("results.h5 in " + out_dir_ +
+                               " was not written by this case and mesh; cannot resume");
+    for (const char* d :
+         {"steps/time", "steps/rotor_angle", "steps/torque", "steps/phase_current",
+          "steps/flux_linkage", "steps/emf", "steps/newton_iterations", "steps/airgap_B_r",
+          "steps/airgap_B_theta", "steps/radial_force_density", "steps/A"})
+      h5_->truncate_rows(d, static_cast<std::size_t>(done));
+    steps_done_ = static_cast<int>(done);
+    if (done > 0) {
+      const std::vector<double> x = h5_->read("restart/x");
+      x_last_ = Eigen::Map<const Eigen::VectorXd>(x.data(), static_cast<long>(x.size()));
+      const std::vector<double> psi = h5_->read("steps/flux_linkage");
+      for (int k = 0; k < 3; ++k) psi_last_[k] = psi[(done - 1) * 3 + k];
+      have_last_ = true;
+    }
+    for (int n = 0; n < done; ++n)
+      if (n % case_.output.fields_every == 0)
+        field_files_.emplace_back(grid_.time(n), fmt::format("fields/step_{:05d}.vtu", n));
+    fmt::print(stderr, "resuming at step {} of {}\n", done + 1, grid_.steps);
+    return static_cast<int>(done);
+  }
+  h5_ = std::make_unique<ResultsFile>(path);
+  h5_->attribute("/", "schema", std::string("gapflux-results/1"));
+  h5_->attribute("/", "case_name", case_.machine.name);
+  h5_->attribute("/", "study", std::string("time_stepping"));
+  h5_->attribute("/", "steps_total", static_cast<long>(grid_.steps));
+  h5_->attribute("/", "steps_done", 0L);
+  h5_->attribute("/", "converged", 0L);
+  h5_->attribute("/", "dt_s", grid_.dt_s);
+  h5_->attribute("/", "steps_per_period", static_cast<long>(grid_.steps_per_period));
+  h5_->attribute("/", "discarded_steps", static_cast<long>(grid_.discarded_steps));
+  h5_->attribute("/", "rotor_currents",
+                 std::string(case_.rotor_currents.bar_rms_a > 0 ? "imposed on the bars, not induced"
+                                                                : "none"));
+  write_mesh_datasets(*h5_, mesh_);
+  h5_->flush();
+  return 0;
+}
+
+void TransientStudy::step(int n) {
+  const double t = grid_.time(n), angle = grid_.rotor_angle(n);
+  MagnetostaticSystem system(mesh_, angle);
+  if (have_last_ && x_last_.size() == system.x().size()) {
+    // Linear predictor from the last two steps, else the last step.
+    system.warm_start(
+        x_before_.size() == x_last_.size() ? Eigen::VectorXd(2.0 * x_last_ - x_before_) : x_last_,
+        shift_last_);
+  }
+  std::vector<double> j = region_current_density(coils_, phase_currents(case_, t));
+  const std::vector<double> bars =
+      bar_current_density(mesh_, case_, lamination_.winding, lamination_.bars, t, angle);
+  for (std::size_t r = 0; r < j.size(); ++r) j[r] += bars[r];
+  const RegionModel model = make_region_model(mesh_, materials_, j);
+  NewtonSettings settings;
+  settings.max_iterations = case_.solver.max_iterations;
+  settings.residual_tolerance = case_.solver.residual_tolerance;
+  settings.update_tolerance = case_.solver.update_tolerance;
+  const NewtonReport report = system.solve(model, settings);
+  newton_last_ = report.iterations;
+  newton_total_ += report.iterations;
+
+  // Post-processing of this step.
+  const double stack = case_.machine.stack_length_m;
+  const Assembler& a = system.assembler();
+  const double torque = arkkio_torque_nm(a, system.x(), mesh_, stack);
+  const auto psi = phase_flux_linkage(a, system.x(), coils_, stack, mesh_.symmetry.sectors);
+  const AirgapSamples s = sample_airgap(a, system.x(), mesh_, airgap_samples_);
+  std::vector<double> sigma(s.b_r_tesla.size());
+  for (std::size_t k = 0; k < sigma.size(); ++k)
+    sigma[k] =
+        (s.b_r_tesla[k] * s.b_r_tesla[k] - s.b_theta_tesla[k] * s.b_theta_tesla[k]) / (2.0 * mu0);
+  std::vector<double> emf(3, 0.0);
+  // Backward difference, consistent with the step sequence; the first step has no predecessor.
+  if (have_last_)
+    for (int k = 0; k < 3; ++k) emf[k] = (psi[k] - psi_last_[k]) / grid_.dt_s;
+  const auto currents = phase_currents(case_, t);
+
+  // Append the step, then mark it done: a kill between the two loses only this step.
+  h5_->append_row("steps/time", {t}, "s");
+  h5_->append_row("steps/rotor_angle", {angle}, "rad");
+  h5_->append_row("steps/torque", {torque}, "N*m");
+  h5_->append_row("steps/phase_current", {currents.begin(), currents.end()}, "A");
+  h5_->append_row("steps/flux_linkage", {psi.begin(), psi.end()}, "Wb");
+  h5_->append_row("steps/emf", emf, "V");
+  h5_->append_row("steps/newton_iterations", {double(report.iterations)}, "1");
+  h5_->append_row("steps/airgap_B_r", s.b_r_tesla, "T");
+  h5_->append_row("steps/airgap_B_theta", s.b_theta_tesla, "T");
+  h5_->append_row("steps/radial_force_density", sigma, "N/m^2");
+  h5_->append_row("steps/A", nodal_potential(mesh_, system.dofs(), system.x()), "Wb/m");
+  if (n == 0 || !h5_->exists("airgap/theta")) {
+    h5_->write("airgap/theta", s.theta_rad, "rad");
+    h5_->attribute("airgap/theta", "radius_m", s.radius_m);
+  }
+  h5_->write("restart/x",
+             std::vector<double>(system.x().data(), system.x().data() + system.x().size()), "1");
+  if (n % case_.output.fields_every == 0) write_fields(n, system, model);
+  h5_->attribute("/", "steps_done", static_cast<long>(n + 1));
+  h5_->flush();
+
+  x_before_ = x_last_;
+  x_last_ = system.x();
+  shift_last_ = system.band().shift;
+  psi_last_ = psi;
+  have_last_ = true;
+  steps_done_ = n + 1;
+}
+
+void TransientStudy::write_fields(int n, const MagnetostaticSystem& system,
+                                  const RegionModel& model) {
+  const ElementFields fields = evaluate_element_fields(system.assembler(), system.x(), model);
+  FieldSnapshot snap;
+  snap.elements = &system.assembler().elements();
+  for (std::size_t e = 0; e < snap.elements->size(); ++e) {
+    snap.corner_values.push_back(system.assembler().local_values(e, system.x()));
+    snap.region_id.push_back(mesh_.regions[(*snap.elements)[e].region].id);
+  }
+  snap.b_tesla = fields.b_tesla;
+  snap.b_abs_tesla = fields.b_abs_tesla;
+  snap.mu_r = fields.mu_r_differential;
+  const std::string name = fmt::format("fields/step_{:05d}.vtu", n);
+  write_fields_vtu((fs::path(out_dir_) / name).string(), mesh_.order, snap);
+  field_files_.emplace_back(grid_.time(n), name);
+  write_pvd((fs::path(out_dir_) / "fields.pvd").string(), field_files_);
+}
+
+void TransientStudy::finish(const std::string& failure) {
+  RunSummary s;
+  s.case_name = case_.machine.name;
+  const MeshQuality q = mesh_quality(mesh_);
+  s.vertices = q.vertices;
+  s.triangles = q.triangles;
+  s.order = mesh_.order;
+  s.dofs = x_last_.size();
+  s.min_angle_deg = q.min_angle_deg;
+  s.sectors = mesh_.symmetry.sectors;
+  s.antiperiodic = mesh_.symmetry.antiperiodic;
+  const WindingLayout& w = lamination_.winding;
+  s.slots = w.slots;
+  s.poles = 2 * w.pole_pairs;
+  s.layers = w.layers;
+  s.coil_pitch_slots = w.coil_pitch_slots;
+  s.factors = w.factors;
+  s.series_turns_per_phase = w.series_turns_per_phase;
+  s.frequency_hz = case_.supply.frequency_hz;
+  s.time_stepping = true;
+  s.dt_s = grid_.dt_s;
+  s.steps_per_period = grid_.steps_per_period;
+  s.discarded_steps = grid_.discarded_steps;
+  s.band_pitches_per_step = grid_.band_pitches_per_step;
+  s.mechanical_speed_rpm = grid_.mechanical_speed_rad_s * 60.0 / (2.0 * std::numbers::pi);
+  s.bar_rms_a = case_.rotor_currents.bar_rms_a;
+  s.airgap_radius_m = 0.5 * (mesh_.stator_ring.radius_m + mesh_.rotor_ring.radius_m);
+
+  // Torque statistics and spectrum over the retained steps (all finished steps past start-up).
+  const std::vector<double> torque =
+      h5_->rows("steps/torque") ? h5_->read("steps/torque") : std::vector<double>{};
+  const int done = static_cast<int>(torque.size());
+  if (done > grid_.discarded_steps) {
+    const std::vector<double> kept(torque.begin() + grid_.discarded_steps, torque.end());
+    double sum = 0, lo = 1e300, hi = -1e300;
+    for (double v : kept) sum += v, lo = std::min(lo, v), hi = std::max(hi, v);
+    s.torque_available = true;
+    s.torque_mean_nm = sum / kept.size();
+    s.torque_min_nm = lo;
+    s.torque_max_nm = hi;
+    s.torque_ripple_pct =
+        std::abs(s.torque_mean_nm) > 0 ? 100.0 * (hi - lo) / std::abs(s.torque_mean_nm) : 0.0;
+    // Orders in multiples of f: bin k of a record of P periods is order k / P.
+    const double periods = double(kept.size()) / grid_.steps_per_period;
+    const std::vector<double> spectrum = amplitude_spectrum(kept);
+    for (std::size_t k = 1; k < spectrum.size(); ++k) {
+      const double order = k / periods;
+      if (std::abs(order - std::round(order)) < 1e-9 &&
+          spectrum[k] > 1e-6 * std::max(1e-30, std::abs(s.torque_mean_nm)))
+        s.torque_harmonics.emplace_back(std::round(order), spectrum[k]);
+    }
+    std::sort(s.torque_harmonics.begin(), s.torque_harmonics.end(),
+              [](const auto& a, const auto& b) { return a.second > b.second; });
+    if (s.torque_harmonics.size() > 12) s.torque_harmonics.resize(12);
+  }
+  s.steps = done;
+  s.newton_iterations = newton_total_;
+  s.converged = failure.empty();
+  s.failure = failure;
+  s.wall_s = now_s() - wall_start_s_;
+  if (failure.empty()) h5_->attribute("/", "converged", 1L);
+  h5_->flush();
+  write_summary_json((fs::path(out_dir_) / "summary.json").string(), s);
+
+  fmt::print("case: {}\n", case_.machine.name);
+  fmt::print(
+      "time stepping: {} steps ({} per period, dt {:.3e} s), rotor {:.2f} rpm, {} Newton "
+      "iterations\n",
+      done, grid_.steps_per_period, grid_.dt_s, s.mechanical_speed_rpm, newton_total_);
+  if (s.torque_available)
+    fmt::print(
+        "torque (Arkkio, over {} retained steps): mean {:.4f} N·m, min {:.4f}, max {:.4f}, ripple "
+        "{:.2f} %\n",
+        done - grid_.discarded_steps, s.torque_mean_nm, s.torque_min_nm, s.torque_max_nm,
+        s.torque_ripple_pct);
+  if (s.bar_rms_a > 0)
+    fmt::print("rotor bar currents: {:.1f} A RMS imposed (not induced)\n", s.bar_rms_a);
+  fmt::print("wrote {}/results.h5, fields.pvd, summary.json\n", out_dir_);
+}
+
+}  // namespace gapflux

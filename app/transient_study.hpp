@@ -1,0 +1,55 @@
+#pragma once
+// One time-stepping study: at each step the supply gives the winding currents, the rotor turns,
+// the band is re-triangulated and the nonlinear field is solved from the previous step's
+// solution (warm start with a linear predictor). Each finished step is appended to results.h5
+// and the file flushed, so a killed run keeps every finished step; `resume` continues from the
+// last one. run() shows the stages: set up, step loop (solve, post-process, write), summary.
+#include <Eigen/Core>
+#include <memory>
+#include <string>
+
+#include "cases/case.hpp"
+#include "geometry/lamination.hpp"
+#include "geometry/mesher.hpp"
+#include "materials/library.hpp"
+#include "postproc/results_file.hpp"
+#include "solver/magnetostatic_system.hpp"
+#include "solver/time_grid.hpp"
+#include "solver/winding_sources.hpp"
+
+namespace gapflux {
+
+class TransientStudy {
+ public:
+  TransientStudy(std::string case_path, std::string out_dir, bool resume);
+  void run();  // throws InputError, NumericalError (after saving the finished steps)
+
+ private:
+  void set_up();
+  int open_results();  // returns the first step to compute
+  void step(int n);
+  void write_fields(int n, const MagnetostaticSystem& system, const RegionModel& model);
+  void finish(const std::string& failure);
+
+  std::string case_path_, out_dir_;
+  bool resume_ = false;
+  Case case_;
+  RegionMaterials materials_;
+  Lamination lamination_;
+  Mesh mesh_;
+  CoilRegions coils_;
+  TimeGrid grid_;
+  int airgap_samples_ = 0;
+  std::unique_ptr<ResultsFile> h5_;
+  Eigen::VectorXd x_last_, x_before_;  // solutions of the last two steps (warm start)
+  std::array<double, 3> psi_last_{0, 0, 0};
+  bool have_last_ = false;
+  int shift_last_ = 0;  // band shift of the last step
+  int newton_total_ = 0;
+  int newton_last_ = 0;
+  int steps_done_ = 0;
+  double wall_start_s_ = 0.0;
+  std::vector<std::pair<double, std::string>> field_files_;
+};
+
+}  // namespace gapflux

@@ -1,0 +1,55 @@
+#include "solver/time_grid.hpp"
+
+#include <fmt/format.h>
+
+#include <cmath>
+#include <numbers>
+
+namespace gapflux {
+
+TimeGrid make_time_grid(const Case& c, double band_pitch_rad) {
+  const StudySpec& s = c.study;
+  TimeGrid g;
+  g.frequency_hz = c.supply.frequency_hz;
+  g.start_s = s.time_s;
+  g.rotor_angle0_rad = s.rotor_angle_rad;
+  const double omega = 2.0 * std::numbers::pi * g.frequency_hz;
+  const int p = c.machine.pole_pairs();
+  switch (s.motion) {
+    case Motion::slip:
+      g.mechanical_speed_rad_s = (1.0 - s.slip) * omega / p;
+      break;
+    case Motion::speed:
+      g.mechanical_speed_rad_s = s.speed_rpm * 2.0 * std::numbers::pi / 60.0;
+      break;
+    case Motion::locked:
+      g.mechanical_speed_rad_s = 0.0;
+      break;
+  }
+  int n = s.steps_per_period;
+  if (s.band_aligned_steps && g.mechanical_speed_rad_s != 0.0) {
+    // Band pitches the rotor passes in one electrical period; the step count must divide it.
+    const double pitches = std::abs(g.mechanical_speed_rad_s) / g.frequency_hz / band_pitch_rad;
+    const long m = std::lround(pitches);
+    if (m < 1 || std::abs(pitches - m) > 1e-6 * pitches)
+      throw c.sources.error(
+          "study.band_aligned_steps",
+          fmt::format(
+              "the rotor passes {:.6f} band pitches per electrical period at this speed, not "
+              "a whole number, so no step count moves it by whole pitches; set "
+              "band_aligned_steps = false, or a slip/speed that makes it whole",
+              pitches));
+    long best = 1;
+    for (long d = 1; d <= m; ++d)
+      if (m % d == 0 && std::abs(d - n) < std::abs(best - n)) best = d;
+    n = static_cast<int>(best);
+    g.band_pitches_per_step = static_cast<int>(m / best);
+  }
+  g.steps_per_period = n;
+  g.dt_s = 1.0 / (g.frequency_hz * n);
+  g.steps = std::max(1, static_cast<int>(std::lround(s.periods * n)));
+  g.discarded_steps = static_cast<int>(std::lround(s.discard_periods * n));
+  return g;
+}
+
+}  // namespace gapflux
