@@ -1,5 +1,7 @@
 #include "static_study.hpp"
 
+#include "study_summary.hpp"
+
 #include <fmt/format.h>
 
 #include <chrono>
@@ -153,23 +155,8 @@ void StaticStudy::write_output(const std::string& failure) {
   }
 
   // summary.json
-  RunSummary s;
-  s.case_name = case_.machine.name;
-  s.vertices = quality.vertices;
-  s.triangles = quality.triangles;
-  s.order = mesh_.order;
-  s.dofs = static_cast<std::size_t>(assembler.n_dofs());
-  s.min_angle_deg = quality.min_angle_deg;
-  s.sectors = sectors;
-  s.antiperiodic = mesh_.symmetry.antiperiodic;
-  const WindingLayout& w = lamination_.winding;
-  s.slots = w.slots;
-  s.poles = 2 * w.pole_pairs;
-  s.layers = w.layers;
-  s.coil_pitch_slots = w.coil_pitch_slots;
-  s.factors = w.factors;
-  s.series_turns_per_phase = w.series_turns_per_phase;
-  s.frequency_hz = case_.supply.frequency_hz;
+  RunSummary s =
+      common_summary(case_, lamination_, mesh_, static_cast<std::size_t>(assembler.n_dofs()));
   s.time_s = case_.study.time_s;
   s.rotor_angle_deg = case_.study.rotor_angle_rad * 180.0 / std::numbers::pi;
   s.phase_current_a = phase_current_a_;

@@ -1,5 +1,7 @@
 #include "transient_study.hpp"
 
+#include "study_summary.hpp"
+
 #include <fmt/format.h>
 #include <unistd.h>
 
@@ -223,32 +225,14 @@ void TransientStudy::write_fields(int n, const MagnetostaticSystem& system,
 }
 
 void TransientStudy::finish(const std::string& failure) {
-  RunSummary s;
-  s.case_name = case_.machine.name;
-  const MeshQuality q = mesh_quality(mesh_);
-  s.vertices = q.vertices;
-  s.triangles = q.triangles;
-  s.order = mesh_.order;
-  s.dofs = x_last_.size();
-  s.min_angle_deg = q.min_angle_deg;
-  s.sectors = mesh_.symmetry.sectors;
-  s.antiperiodic = mesh_.symmetry.antiperiodic;
-  const WindingLayout& w = lamination_.winding;
-  s.slots = w.slots;
-  s.poles = 2 * w.pole_pairs;
-  s.layers = w.layers;
-  s.coil_pitch_slots = w.coil_pitch_slots;
-  s.factors = w.factors;
-  s.series_turns_per_phase = w.series_turns_per_phase;
-  s.frequency_hz = case_.supply.frequency_hz;
+  RunSummary s =
+      common_summary(case_, lamination_, mesh_, static_cast<std::size_t>(x_last_.size()));
   s.time_stepping = true;
   s.dt_s = grid_.dt_s;
   s.steps_per_period = grid_.steps_per_period;
   s.discarded_steps = grid_.discarded_steps;
   s.band_pitches_per_step = grid_.band_pitches_per_step;
   s.mechanical_speed_rpm = grid_.mechanical_speed_rad_s * 60.0 / (2.0 * std::numbers::pi);
-  s.bar_rms_a = case_.rotor_currents.bar_rms_a;
-  s.airgap_radius_m = 0.5 * (mesh_.stator_ring.radius_m + mesh_.rotor_ring.radius_m);
 
   // Torque statistics and spectrum over the retained steps (all finished steps past start-up).
   const std::vector<double> torque =

@@ -56,15 +56,7 @@ struct Row {
 Row run_case(const std::string& name, const std::string& path, double refine) {
   Row row;
   row.name = name;
-  std::string text;
-  {
-    std::FILE* f = std::fopen(path.c_str(), "rb");
-    char buffer[4096];
-    std::size_t n;
-    while ((n = std::fread(buffer, 1, sizeof buffer, f)) > 0) text.append(buffer, n);
-    std::fclose(f);
-  }
-  Case c = read_case_text(text, path);
+  Case c = read_case_file(path);
   const Lamination lam = build_lamination(c);
   MeshSettings settings = resolve_mesh_settings(c, lam);
   if (refine != 1.0) {
@@ -131,15 +123,7 @@ Row run_case(const std::string& name, const std::string& path, double refine) {
 // Time stepping: per step, the band re-triangulation and system set-up ("remesh"), Newton's
 // assembly / factorisation / solve, and the post-processing (torque, flux linkage, airgap).
 void run_stepping(const std::string& path, int steps) {
-  std::string text;
-  {
-    std::FILE* f = std::fopen(path.c_str(), "rb");
-    char buffer[4096];
-    std::size_t n;
-    while ((n = std::fread(buffer, 1, sizeof buffer, f)) > 0) text.append(buffer, n);
-    std::fclose(f);
-  }
-  const Case c = read_case_text(text, path);
+  const Case c = read_case_file(path);
   const Lamination lam = build_lamination(c);
   const Mesh mesh = mesh_lamination(lam, resolve_mesh_settings(c, lam));
   const RegionMaterials materials = resolve_region_materials(c);

@@ -81,27 +81,9 @@ RegionModel two_sheet_model(const Mesh& mesh, const Sheet* stator, const Sheet* 
 //   T = L∫ r·J_r·B_r dS,  B_r = (1/r)∂A/∂θ = −(p/r) f sin(pθ),  J_r = J_r0 cos(pθ − δ)
 //     = −π·p·L·J_r0·sin δ·∫_{R_r}^{R_a} f(r)·r dr.
 double closed_form_torque(double js0, double jr0, double delta, double stack_m) {
-  const double K = -mu0 * js0 / (4.0 - p * p);
-  Eigen::Matrix<double, 7, 7> M = Eigen::Matrix<double, 7, 7>::Zero();
-  Eigen::Matrix<double, 7, 1> rhs = Eigen::Matrix<double, 7, 1>::Zero();
-  const auto rp = [](double r) { return std::pow(r, p); };
-  const auto rm = [](double r) { return std::pow(r, -p); };
-  const auto drp = [](double r) { return p * std::pow(r, p - 1); };
-  const auto drm = [](double r) { return -p * std::pow(r, -p - 1); };
-  M(0, 0) = rp(R_r), M(0, 1) = -rp(R_r), M(0, 2) = -rm(R_r);
-  M(1, 0) = drp(R_r) / mu_r, M(1, 1) = -drp(R_r), M(1, 2) = -drm(R_r);
-  M(2, 1) = rp(R_1), M(2, 2) = rm(R_1), M(2, 3) = -rp(R_1), M(2, 4) = -rm(R_1),
-       rhs(2) = K * R_1 * R_1;
-  M(3, 1) = drp(R_1), M(3, 2) = drm(R_1), M(3, 3) = -drp(R_1), M(3, 4) = -drm(R_1),
-       rhs(3) = 2 * K * R_1;
-  M(4, 3) = rp(R_s), M(4, 4) = rm(R_s), M(4, 5) = -rp(R_s), M(4, 6) = -rm(R_s),
-       rhs(4) = -K * R_s * R_s;
-  M(5, 3) = drp(R_s), M(5, 4) = drm(R_s), M(5, 5) = -drp(R_s) / mu_r, M(5, 6) = -drm(R_s) / mu_r,
-       rhs(5) = -2 * K * R_s;
-  M(6, 5) = rp(R_o), M(6, 6) = rm(R_o);
-  const Eigen::Matrix<double, 7, 1> u = M.fullPivLu().solve(rhs);
-  const double integral = u(1) * (std::pow(R_a, p + 2) - std::pow(R_r, p + 2)) / (p + 2) +
-                          u(2) * (std::pow(R_a, 2 - p) - std::pow(R_r, 2 - p)) / (2 - p);
+  const auto [C1, D1] = test::slotless_air_coefficients(p, mu_r, js0, R_r, R_1, R_s, R_o);
+  const double integral = C1 * (std::pow(R_a, p + 2) - std::pow(R_r, p + 2)) / (p + 2) +
+                          D1 * (std::pow(R_a, 2 - p) - std::pow(R_r, 2 - p)) / (2 - p);
   return -pi * p * stack_m * jr0 * std::sin(delta) * integral;
 }
 

@@ -1,10 +1,13 @@
 #pragma once
 // Hand-built laminations for the closed-form checks: concentric rings meshed by the same Gmsh
 // adapter as the machines.
+#include <Eigen/Dense>
+#include <cmath>
 #include <numbers>
 
 #include "geometry/lamination.hpp"
 #include "geometry/mesher.hpp"
+#include "materials/bh_curve.hpp"
 
 namespace gapflux::test {
 
@@ -55,6 +58,37 @@ inline MeshSettings uniform_settings(int order, double size_m, int band_nodes = 
   s.growth_rate = 0.2;
   s.band_nodes = band_nodes > 0 ? band_nodes : 12;
   return s;
+}
+
+// Closed form of a slotless gap between linear iron cylinders (μr) with a current layer
+// R_1 < r < R_s carrying J0·cos(pθ) (derivation in the slotless test's comment): in each
+// region A = f(r)·cos(pθ) with f = C r^p + D r^−p, plus K r² (K(4 − p²) = −μ0 J0) in the layer;
+// A and (1/μ)∂A/∂r continuous at R_r, R_1, R_s; f regular at 0 and zero at R_o.
+// Returns (C1, D1): f in the air between the rotor iron (r < R_r) and the layer.
+inline std::pair<double, double> slotless_air_coefficients(int p, double mu_r, double j0,
+                                                           double R_r, double R_1, double R_s,
+                                                           double R_o) {
+  const double K = -mu0 * j0 / (4.0 - p * p);
+  Eigen::Matrix<double, 7, 7> M = Eigen::Matrix<double, 7, 7>::Zero();
+  Eigen::Matrix<double, 7, 1> rhs = Eigen::Matrix<double, 7, 1>::Zero();
+  const auto rp = [&](double r) { return std::pow(r, p); };
+  const auto rm = [&](double r) { return std::pow(r, -p); };
+  const auto drp = [&](double r) { return p * std::pow(r, p - 1); };
+  const auto drm = [&](double r) { return -p * std::pow(r, -p - 1); };
+  // unknowns: C0, C1, D1, C2, D2, C3, D3
+  M(0, 0) = rp(R_r), M(0, 1) = -rp(R_r), M(0, 2) = -rm(R_r);
+  M(1, 0) = drp(R_r) / mu_r, M(1, 1) = -drp(R_r), M(1, 2) = -drm(R_r);
+  M(2, 1) = rp(R_1), M(2, 2) = rm(R_1), M(2, 3) = -rp(R_1), M(2, 4) = -rm(R_1),
+       rhs(2) = K * R_1 * R_1;
+  M(3, 1) = drp(R_1), M(3, 2) = drm(R_1), M(3, 3) = -drp(R_1), M(3, 4) = -drm(R_1),
+       rhs(3) = 2 * K * R_1;
+  M(4, 3) = rp(R_s), M(4, 4) = rm(R_s), M(4, 5) = -rp(R_s), M(4, 6) = -rm(R_s),
+       rhs(4) = -K * R_s * R_s;
+  M(5, 3) = drp(R_s), M(5, 4) = drm(R_s), M(5, 5) = -drp(R_s) / mu_r, M(5, 6) = -drm(R_s) / mu_r,
+       rhs(5) = -2 * K * R_s;
+  M(6, 5) = rp(R_o), M(6, 6) = rm(R_o);
+  const Eigen::Matrix<double, 7, 1> u = M.fullPivLu().solve(rhs);
+  return {u(1), u(2)};
 }
 
 }  // namespace gapflux::test

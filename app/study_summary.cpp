@@ -1,0 +1,30 @@
+#include "study_summary.hpp"
+
+namespace gapflux {
+
+RunSummary common_summary(const Case& c, const Lamination& lamination, const Mesh& mesh,
+                          std::size_t dofs) {
+  RunSummary s;
+  const MeshQuality quality = mesh_quality(mesh);
+  s.case_name = c.machine.name;
+  s.vertices = quality.vertices;
+  s.triangles = quality.triangles;
+  s.order = mesh.order;
+  s.dofs = dofs;
+  s.min_angle_deg = quality.min_angle_deg;
+  s.sectors = mesh.symmetry.sectors;
+  s.antiperiodic = mesh.symmetry.antiperiodic;
+  const WindingLayout& w = lamination.winding;
+  s.slots = w.slots;
+  s.poles = 2 * w.pole_pairs;
+  s.layers = w.layers;
+  s.coil_pitch_slots = w.coil_pitch_slots;
+  s.factors = w.factors;
+  s.series_turns_per_phase = w.series_turns_per_phase;
+  s.frequency_hz = c.supply.frequency_hz;
+  s.bar_rms_a = c.rotor_currents.bar_rms_a;
+  s.airgap_radius_m = 0.5 * (mesh.stator_ring.radius_m + mesh.rotor_ring.radius_m);
+  return s;
+}
+
+}  // namespace gapflux
