@@ -1,7 +1,7 @@
 #pragma once
 // One time-stepping study: at each step the supply gives the winding currents, the rotor turns,
 // the band is re-triangulated and the nonlinear field is solved from the previous step's
-// solution (warm start with a linear predictor). Each finished step is appended to results.h5
+// solution (warm start). Each finished step is appended to results.h5
 // and the file flushed, so a killed run keeps every finished step; `resume` continues from the
 // last one. run() shows the stages: set up, step loop (solve, post-process, write), summary.
 #include <Eigen/Core>
@@ -41,7 +41,7 @@ class TransientStudy {
   TimeGrid grid_;
   int airgap_samples_ = 0;
   std::unique_ptr<ResultsFile> h5_;
-  Eigen::VectorXd x_last_, x_before_;  // solutions of the last two steps (warm start)
+  Eigen::VectorXd x_last_;  // the last step's solution (warm start)
   std::array<double, 3> psi_last_{0, 0, 0};
   bool have_last_ = false;
   int shift_last_ = 0;  // band shift of the last step

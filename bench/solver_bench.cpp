@@ -132,15 +132,14 @@ void run_stepping(const std::string& path, int steps) {
   const double omega = 2 * std::numbers::pi * c.supply.frequency_hz;
   double remesh = 0, assembly = 0, factor = 0, solve = 0, post = 0, wall = 0;
   int iterations = 0, analyses = 0;
-  Eigen::VectorXd last, before;
+  Eigen::VectorXd last;
   int last_shift = 0;
   for (int n = 0; n < steps; ++n) {
     const auto t_step = std::chrono::steady_clock::now();
     const double t = grid.time(n), angle = grid.rotor_angle(n);
     auto t0 = std::chrono::steady_clock::now();
     MagnetostaticSystem system(mesh, angle);
-    if (last.size())
-      system.warm_start(before.size() ? Eigen::VectorXd(2 * last - before) : last, last_shift);
+    if (last.size()) system.warm_start(last, last_shift);
     remesh += seconds(t0);
     std::array<double, 3> i{};
     for (int k = 0; k < 3; ++k)
@@ -165,7 +164,6 @@ void run_stepping(const std::string& path, int steps) {
                        mesh.symmetry.sectors);
     sample_airgap(system.assembler(), system.x(), mesh, default_airgap_samples(mesh));
     post += seconds(t0);
-    before = last;
     last = system.x();
     last_shift = system.band().shift;
     wall += seconds(t_step);

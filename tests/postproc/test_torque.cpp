@@ -74,7 +74,8 @@ RegionModel two_sheet_model(const Mesh& mesh, const Sheet* stator, const Sheet* 
   return model;
 }
 
-// Closed form (derivation as in the slotless test of the solver): the stator sheet alone gives
+// Closed form (derivation as in the slotless test of the solver; Laplace's equation in polar
+// coordinates and the Lorentz force J × B, any electromagnetics text): the stator sheet alone gives
 // A_s = f(r)·cos(pθ), f = C1 r^p + D1 r^−p between the rotor iron and the stator sheet. The
 // torque on the rotor is the Lorentz torque on the rotor sheet in that field (a smooth linear
 // iron cylinder takes none, and a sheet's own field exerts none on itself):
