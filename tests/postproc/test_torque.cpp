@@ -51,16 +51,7 @@ Mesh two_sheet_mesh() {
 }
 
 RegionModel two_sheet_model(const Mesh& mesh, const Sheet* stator, const Sheet* rotor) {
-  static const Material air = [] {
-    Material m;
-    m.relative_permeability = 1.0;
-    return m;
-  }();
-  static const Material iron = [] {
-    Material m;
-    m.relative_permeability = mu_r;
-    return m;
-  }();
+  static const Material air = test::linear_material(1.0), iron = test::linear_material(mu_r);
   RegionModel model;
   for (const MeshRegion& r : mesh.regions) {
     const bool is_iron =

@@ -17,16 +17,7 @@ import numpy as np
 
 gapflux, examples, tmp = sys.argv[1:4]
 os.makedirs(tmp, exist_ok=True)
-failures = []
-passed = 0
-
-
-def check(condition, message):
-    global passed
-    if condition:
-        passed += 1
-    else:
-        failures.append(message)
+from tally import check, finish
 
 
 text = open(os.path.join(examples, "compressor_2p24s.toml")).read()
@@ -78,7 +69,4 @@ with h5py.File(os.path.join(whole, "results.h5"), "r") as a, h5py.File(os.path.j
 pvd = open(os.path.join(killed, "fields.pvd")).read()
 check(pvd.count("<DataSet") == 3, f"fields.pvd lists {pvd.count('<DataSet')} files, expected 3")
 
-for f in failures:
-    print("FAIL:", f)
-print(f"{passed} passed, {len(failures)} failed")
-sys.exit(1 if failures else 0)
+finish()

@@ -17,16 +17,7 @@ import meshio
 import numpy as np
 
 gapflux, examples, tmp = sys.argv[1:4]
-failures = []
-passed = 0
-
-
-def check(condition, message):
-    global passed
-    if condition:
-        passed += 1
-    else:
-        failures.append(message)
+from tally import check, finish
 
 
 case = os.path.join(examples, "compressor_2p24s.toml")
@@ -94,7 +85,4 @@ with h5py.File(os.path.join(short_out, "results.h5"), "r") as f:
 short_summary = json.load(open(os.path.join(short_out, "summary.json")))
 check("failure" in short_summary["solver"], "summary has no failure text")
 
-for f in failures:
-    print("FAIL:", f)
-print(f"{passed} passed, {len(failures)} failed")
-sys.exit(1 if failures else 0)
+finish()

@@ -8,6 +8,7 @@
 #include "geometry/lamination.hpp"
 #include "geometry/mesher.hpp"
 #include "materials/bh_curve.hpp"
+#include "materials/library.hpp"
 
 namespace gapflux::test {
 
@@ -48,6 +49,13 @@ inline Lamination ring_lamination(const std::vector<Ring>& rings, int sectors, b
     lam.bore_radius_m = rings.back().r_outer_m;
   }
   return lam;
+}
+
+inline Material linear_material(double mu_r) {
+  Material m;
+  m.name = "linear";
+  m.relative_permeability = mu_r;
+  return m;
 }
 
 inline MeshSettings uniform_settings(int order, double size_m, int band_nodes = 0) {

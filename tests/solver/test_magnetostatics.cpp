@@ -29,10 +29,7 @@ std::shared_ptr<const BHCurve> test_curve() {
 }
 
 Material linear(double mu_r) {
-  Material m;
-  m.name = "linear";
-  m.relative_permeability = mu_r;
-  return m;
+  return test::linear_material(mu_r);
 }
 
 Material nonlinear() {
