@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 #include <fmt/ostream.h>
 
+#include <cmath>
 #include <map>
 #include <numbers>
 
@@ -11,6 +12,13 @@ namespace {
 
 constexpr double mm = 1e-3;
 constexpr double to_deg = 180.0 / std::numbers::pi;
+
+// An angle in (−180°, 180°].
+double wrapped_deg(double rad) {
+  double d = std::remainder(rad * to_deg, 360.0);
+  if (d <= -180.0) d += 360.0;
+  return d;
+}
 
 }  // namespace
 
@@ -80,12 +88,31 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
              "\"{}\"\nshaft = \"{}\"\n",
              m.stator_iron, m.rotor_iron, m.coils, m.bars, m.shaft);
   const auto& sp = c.supply;
-  fmt::print(out, "\n[supply]\nfeed = \"current\"\nfrequency_hz = {:g}\nrms_a = {:g}\n",
-             sp.frequency_hz, sp.rms_a);
+  fmt::print(out, "\n[supply]\nfeed = \"current\"\nfrequency_hz = {:.9g}{}\n", sp.frequency_hz,
+             sp.frequency_detected ? "  # detected from the waveform table" : "");
   const char* names[3] = {"a", "b", "c"};
-  for (int k = 0; k < 3; ++k)
-    fmt::print(out, "phases.{} = {{ rms_a = {:g}, angle_deg = {:g} }}\n", names[k],
-               sp.phases[k].rms_a, sp.phases[k].angle_rad * to_deg);
+  if (sp.form == SupplyForm::waveform) {
+    fmt::print(out, "waveform.file = \"{}\"  # {} rows, {:.6g} s to {:.6g} s\n", sp.waveform.file,
+               sp.waveform.time_s.size(), sp.waveform.time_s.front(), sp.waveform.time_s.back());
+  } else {
+    if (sp.form == SupplyForm::sequence) {
+      const char* seq[3] = {"zero", "positive", "negative"};
+      for (int q = 0; q < 3; ++q)
+        fmt::print(out, "sequence.{} = {{ rms_a = {:g}, angle_deg = {:g} }}\n", seq[q],
+                   sp.sequence[q].rms_a, sp.sequence[q].angle_rad * to_deg);
+      fmt::print(out, "# resolved to phases:\n");
+    }
+    for (int k = 0; k < 3; ++k)
+      fmt::print(out, "{}phases.{} = {{ rms_a = {:.6g}, angle_deg = {:.6g} }}\n",
+                 sp.form == SupplyForm::sequence ? "# " : "", names[k], sp.phases[k].rms_a,
+                 sp.phases[k].angle_rad * to_deg);
+    for (const CurrentComponent& h : sp.harmonics)
+      fmt::print(out,
+                 "# {}: order {:g}: a {:.4g} A ∠{:.4g}°, b {:.4g} A ∠{:.4g}°, c {:.4g} A "
+                 "∠{:.4g}°\n",
+                 h.key_path, h.order, h.rms_a[0], wrapped_deg(h.angle_rad[0]), h.rms_a[1],
+                 wrapped_deg(h.angle_rad[1]), h.rms_a[2], wrapped_deg(h.angle_rad[2]));
+  }
   fmt::print(out,
              "\n[mesh]\norder = {}\nairgap_size_mm = {:g}\niron_size_mm = {:g}\ngrowth_rate = "
              "{:g}\nband_nodes = {}\nsymmetry = \"{}\"\n",

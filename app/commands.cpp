@@ -14,6 +14,7 @@
 #include "geometry/moving_band.hpp"
 #include "materials/library.hpp"
 #include "postproc/vtu_writer.hpp"
+#include "solver/supply_currents.hpp"
 #include "solver/time_grid.hpp"
 #include "static_study.hpp"
 #include "transient_study.hpp"
@@ -37,6 +38,8 @@ Prepared prepare(const std::string& case_path) {
   p.mesh_settings = resolve_mesh_settings(p.c, p.lamination);
   if (p.c.study.kind == StudyKind::time_stepping)
     p.grid = make_time_grid(p.c, 2.0 * std::numbers::pi / p.mesh_settings.band_nodes);
+  else
+    check_supply_at_instant(p.c, p.c.study.time_s);
   return p;
 }
 

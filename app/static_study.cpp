@@ -16,6 +16,7 @@
 #include "postproc/summary.hpp"
 #include "postproc/vtu_writer.hpp"
 #include "solver/region_model.hpp"
+#include "solver/supply_currents.hpp"
 
 namespace gapflux {
 namespace {
@@ -59,11 +60,8 @@ void StaticStudy::set_up() {
   mesh_ = mesh_lamination(lamination_, mesh_settings_);
   system_ = std::make_unique<MagnetostaticSystem>(mesh_, case_.study.rotor_angle_rad);
 
-  // Supply at the instant: i_k = √2·I_k·cos(ωt + φ_k).
-  const double omega = 2.0 * std::numbers::pi * case_.supply.frequency_hz;
-  for (int k = 0; k < 3; ++k)
-    phase_current_a_[k] = std::sqrt(2.0) * case_.supply.phases[k].rms_a *
-                          std::cos(omega * case_.study.time_s + case_.supply.phases[k].angle_rad);
+  check_supply_at_instant(case_, case_.study.time_s);
+  phase_current_a_ = supply_phase_currents_a(case_.supply, case_.study.time_s);
 
   coils_ = coil_regions(mesh_, lamination_.winding);
   const std::vector<double> j = region_current_density(coils_, phase_current_a_);

@@ -22,6 +22,10 @@ RunSummary common_summary(const Case& c, const Lamination& lamination, const Mes
   s.factors = w.factors;
   s.series_turns_per_phase = w.series_turns_per_phase;
   s.frequency_hz = c.supply.frequency_hz;
+  s.frequency_detected = c.supply.frequency_detected;
+  s.supply_form = c.supply.form == SupplyForm::phases     ? "phases"
+                  : c.supply.form == SupplyForm::sequence ? "sequence"
+                                                          : "waveform";
   s.bar_rms_a = c.rotor_currents.bar_rms_a;
   s.airgap_radius_m = 0.5 * (mesh.stator_ring.radius_m + mesh.rotor_ring.radius_m);
   return s;

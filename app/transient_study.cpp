@@ -1,5 +1,6 @@
 #include "transient_study.hpp"
 
+#include "analysis_printout.hpp"
 #include "study_summary.hpp"
 
 #include <fmt/format.h>
@@ -13,6 +14,7 @@
 #include "cases/case_reader.hpp"
 #include "postproc/field_evaluation.hpp"
 #include "postproc/result_sets.hpp"
+#include "postproc/run_analysis.hpp"
 #include "postproc/spectrum.hpp"
 #include "postproc/summary.hpp"
 #include "postproc/torque.hpp"
@@ -20,6 +22,7 @@
 #include "solver/magnetostatic_system.hpp"
 #include "solver/region_model.hpp"
 #include "solver/rotor_currents.hpp"
+#include "solver/supply_currents.hpp"
 
 namespace gapflux {
 namespace {
@@ -28,15 +31,6 @@ namespace fs = std::filesystem;
 
 double now_s() {
   return std::chrono::duration<double>(std::chrono::steady_clock::now().time_since_epoch()).count();
-}
-
-std::array<double, 3> phase_currents(const Case& c, double t) {
-  const double omega = 2.0 * std::numbers::pi * c.supply.frequency_hz;
-  std::array<double, 3> i{};
-  for (int k = 0; k < 3; ++k)
-    i[k] = std::sqrt(2.0) * c.supply.phases[k].rms_a *
-           std::cos(omega * t + c.supply.phases[k].angle_rad);
-  return i;
 }
 
 std::string duration_text(double seconds) {
@@ -145,7 +139,7 @@ void TransientStudy::step(int n) {
   // were measured on the saturated demo and needed more Newton iterations (15 and 17 per step
   // against 12): the saturated regions move, and extrapolated fields overshoot there.
   if (have_last_ && x_last_.size() == system.x().size()) system.warm_start(x_last_, shift_last_);
-  std::vector<double> j = region_current_density(coils_, phase_currents(case_, t));
+  std::vector<double> j = region_current_density(coils_, supply_phase_currents_a(case_.supply, t));
   const std::vector<double> bars =
       bar_current_density(mesh_, case_, lamination_.winding, lamination_.bars, t, angle);
   for (std::size_t r = 0; r < j.size(); ++r) j[r] += bars[r];
@@ -172,7 +166,7 @@ void TransientStudy::step(int n) {
   // Backward difference, consistent with the step sequence; the first step has no predecessor.
   if (have_last_)
     for (int k = 0; k < 3; ++k) emf[k] = (psi[k] - psi_last_[k]) / grid_.dt_s;
-  const auto currents = phase_currents(case_, t);
+  const auto currents = supply_phase_currents_a(case_.supply, t);
 
   // Append the step, then mark it done: a kill between the two loses only this step.
   h5_->append_row("steps/time", {t}, "s");
@@ -221,6 +215,44 @@ void TransientStudy::write_fields(int n, const MagnetostaticSystem& system,
   write_pvd((fs::path(out_dir_) / "fields.pvd").string(), field_files_);
 }
 
+RunRecord TransientStudy::read_record(int done) const {
+  RunRecord r;
+  r.frequency_hz = grid_.frequency_hz;
+  r.steps_per_period = grid_.steps_per_period;
+  // The last whole periods of the retained steps that finished.
+  r.periods = std::max(0, done - grid_.discarded_steps) / grid_.steps_per_period;
+  r.first_step = done - r.periods * grid_.steps_per_period;
+  if (done == 0) return r;
+  r.time_s = h5_->read("steps/time");
+  const std::vector<double> i = h5_->read("steps/phase_current");
+  const std::vector<double> psi = h5_->read("steps/flux_linkage");
+  for (int n = 0; n < done; ++n)
+    for (int k = 0; k < 3; ++k) {
+      r.current_a[k].push_back(i[n * 3 + k]);
+      r.flux_linkage_wb[k].push_back(psi[n * 3 + k]);
+    }
+  r.torque_nm = h5_->read("steps/torque");
+  const std::vector<double> b = h5_->read("steps/airgap_B_r");
+  const std::vector<double> theta = h5_->read("airgap/theta");
+  const std::size_t per_sector = theta.size();
+  for (int n = 0; n < done; ++n) {
+    const std::vector<double> row(b.begin() + n * per_sector, b.begin() + (n + 1) * per_sector);
+    const std::vector<double> full =
+        full_circle(row, mesh_.symmetry.sectors, mesh_.symmetry.antiperiodic);
+    r.airgap.b_r_tesla.insert(r.airgap.b_r_tesla.end(), full.begin(), full.end());
+  }
+  r.airgap.samples = static_cast<int>(per_sector) * mesh_.symmetry.sectors;
+  r.airgap.steps = done;
+  r.airgap.theta0_rad = theta.empty() ? 0.0 : theta[0];
+  r.orders.pole_pairs = case_.machine.pole_pairs();
+  r.orders.stator_slots = case_.stator.slots;
+  r.orders.rotor_bars = case_.rotor.kind == RotorKind::cage ? case_.rotor.bars : 0;
+  r.orders.integral_slot = case_.stator.slots % (3 * case_.machine.poles) == 0;
+  r.orders.rotor_speed_pu = grid_.mechanical_speed_rad_s * r.orders.pole_pairs /
+                            (2.0 * std::numbers::pi * grid_.frequency_hz);
+  return r;
+}
+
 void TransientStudy::finish(const std::string& failure) {
   RunSummary s =
       common_summary(case_, lamination_, mesh_, static_cast<std::size_t>(x_last_.size()));
@@ -245,24 +277,19 @@ void TransientStudy::finish(const std::string& failure) {
     s.torque_max_nm = hi;
     s.torque_ripple_pct =
         std::abs(s.torque_mean_nm) > 0 ? 100.0 * (hi - lo) / std::abs(s.torque_mean_nm) : 0.0;
-    // Orders in multiples of f: bin k of a record of P periods is order k / P.
-    const double periods = double(kept.size()) / grid_.steps_per_period;
-    const std::vector<double> spectrum = amplitude_spectrum(kept);
-    for (std::size_t k = 1; k < spectrum.size(); ++k) {
-      const double order = k / periods;
-      if (std::abs(order - std::round(order)) < 1e-9 &&
-          spectrum[k] > 1e-6 * std::max(1e-30, std::abs(s.torque_mean_nm)))
-        s.torque_harmonics.emplace_back(std::round(order), spectrum[k]);
-    }
-    std::sort(s.torque_harmonics.begin(), s.torque_harmonics.end(),
-              [](const auto& a, const auto& b) { return a.second > b.second; });
-    if (s.torque_harmonics.size() > 12) s.torque_harmonics.resize(12);
   }
   s.steps = done;
   s.newton_iterations = newton_total_;
   s.converged = failure.empty();
   s.failure = failure;
   s.wall_s = now_s() - wall_start_s_;
+  // What the supply did, over the last whole periods; written even after a failure, from the
+  // steps that finished.
+  s.analysis = analyse_run(read_record(done));
+  write_analysis(*h5_, *s.analysis);
+  s.torque_harmonics.clear();
+  for (const TorqueHarmonic& t : s.analysis->torque_harmonics)
+    s.torque_harmonics.emplace_back(t.order, t.amplitude_nm);
   if (failure.empty()) h5_->attribute("/", "converged", 1L);
   h5_->flush();
   write_summary_json((fs::path(out_dir_) / "summary.json").string(), s);
@@ -280,6 +307,7 @@ void TransientStudy::finish(const std::string& failure) {
         s.torque_ripple_pct);
   if (s.bar_rms_a > 0)
     fmt::print("rotor bar currents: {:.1f} A RMS imposed (not induced)\n", s.bar_rms_a);
+  print_analysis_table(stdout, *s.analysis, s.torque_mean_nm, s.torque_ripple_pct);
   fmt::print("wrote {}/results.h5, fields.pvd, summary.json\n", out_dir_);
 }
 

@@ -13,6 +13,7 @@
 #include "geometry/mesher.hpp"
 #include "materials/library.hpp"
 #include "postproc/results_file.hpp"
+#include "postproc/run_analysis.hpp"
 #include "solver/magnetostatic_system.hpp"
 #include "solver/time_grid.hpp"
 #include "solver/winding_sources.hpp"
@@ -29,6 +30,7 @@ class TransientStudy {
   int open_results();  // returns the first step to compute
   void step(int n);
   void write_fields(int n, const MagnetostaticSystem& system, const RegionModel& model);
+  RunRecord read_record(int done) const;  // the finished steps, for the analysis
   void finish(const std::string& failure);
 
   std::string case_path_, out_dir_;

@@ -9,76 +9,14 @@
 #include <numbers>
 #include <sstream>
 
+#include "supply_reader.hpp"
 #include "table_reader.hpp"
+#include "value_checks.hpp"
 
 namespace gapflux {
 namespace {
 
-constexpr double mm = 1e-3;
-constexpr double deg = std::numbers::pi / 180.0;
-constexpr double max_length_mm = 10000.0;  // nothing we model is larger than 10 m
-
-// A length in millimetres, strictly positive, returned in metres.
-double length_mm(TableReader& t, const std::string& key, std::optional<double> default_mm,
-                 const std::string& what) {
-  const auto v = t.number(key);
-  if (!v && !default_mm) throw t.missing(key, what + " in mm (a number > 0)");
-  const double value = v ? *v : *default_mm;
-  if (!(value > 0.0) || value > max_length_mm)
-    throw t.error(key,
-                  fmt::format("must be a length in mm in (0, {}] (got {})", max_length_mm, value));
-  return value * mm;
-}
-
-// A length in millimetres that may be zero.
-double length_or_zero_mm(TableReader& t, const std::string& key, double default_mm) {
-  const double value = t.number(key).value_or(default_mm);
-  if (!(value >= 0.0) || value > max_length_mm)
-    throw t.error(key,
-                  fmt::format("must be a length in mm in [0, {}] (got {})", max_length_mm, value));
-  return value * mm;
-}
-
-double number_in(TableReader& t, const std::string& key, std::optional<double> dflt, double lo,
-                 double hi, const std::string& unit) {
-  const auto v = t.number(key);
-  if (!v && !dflt) throw t.missing(key, fmt::format("a number in [{}, {}] {}", lo, hi, unit));
-  const double value = v ? *v : *dflt;
-  if (!(value >= lo && value <= hi))
-    throw t.error(key, fmt::format("must be in [{}, {}] {} (got {})", lo, hi, unit, value));
-  return value;
-}
-
-int integer_in(TableReader& t, const std::string& key, std::optional<long long> dflt, long long lo,
-               long long hi) {
-  const auto v = t.integer(key);
-  if (!v && !dflt) throw t.missing(key, fmt::format("an integer in [{}, {}]", lo, hi));
-  const long long value = v ? *v : *dflt;
-  if (value < lo || value > hi)
-    throw t.error(key, fmt::format("must be an integer in [{}, {}] (got {})", lo, hi, value));
-  return static_cast<int>(value);
-}
-
-// One of a fixed set of words; returns its index.
-std::size_t choice(TableReader& t, const std::string& key, const std::vector<std::string>& options,
-                   std::optional<std::size_t> dflt) {
-  const auto v = t.string(key);
-  if (!v) {
-    if (dflt) return *dflt;
-    throw t.missing(key, fmt::format("one of: {}", fmt::join(options, ", ")));
-  }
-  for (std::size_t i = 0; i < options.size(); ++i)
-    if (options[i] == *v) return i;
-  std::string msg = fmt::format("must be one of: {} (got \"{}\")", fmt::join(options, ", "), *v);
-  if (auto guess = nearest_of(*v, options); !guess.empty())
-    msg += fmt::format("; did you mean \"{}\"?", guess);
-  throw t.error(key, msg);
-}
-
-TableReader required_table(TableReader& parent, const std::string& key, const std::string& what) {
-  if (auto t = parent.table(key)) return *t;
-  throw parent.missing(key, fmt::format("a table [{}] with {}", parent.key_path(key), what), true);
-}
+using namespace value_checks;
 
 MachineSpec parse_machine(TableReader t) {
   MachineSpec m;
@@ -300,34 +238,6 @@ MaterialsSpec parse_materials(std::optional<TableReader> t) {
   return m;
 }
 
-PhaseSpec parse_phase(TableReader t, double default_rms_a, double default_angle_deg) {
-  PhaseSpec p;
-  p.rms_a = number_in(t, "rms_a", default_rms_a, 0.0, 1e6, "A");
-  p.angle_rad = number_in(t, "angle_deg", default_angle_deg, -360.0, 360.0, "degrees") * deg;
-  t.finish();
-  return p;
-}
-
-SupplySpec parse_supply(TableReader t) {
-  SupplySpec s;
-  s.feed = static_cast<Feed>(choice(t, "feed", {"current"}, std::size_t{0}));
-  s.frequency_hz = number_in(t, "frequency_hz", 50.0, 0.0, 10000.0, "Hz");
-  if (s.frequency_hz <= 0.0) throw t.error("frequency_hz", "must be greater than 0 Hz");
-  s.rms_a = number_in(t, "rms_a", std::nullopt, 0.0, 1e6, "A");
-  const char* names[3] = {"a", "b", "c"};
-  const double default_angle_deg[3] = {0.0, -120.0, -240.0};
-  auto phases = t.table("phases");
-  for (int k = 0; k < 3; ++k) {
-    s.phases[k] = {s.rms_a, default_angle_deg[k] * deg};
-    if (!phases) continue;
-    if (auto p = phases->table(names[k]))
-      s.phases[k] = parse_phase(*p, s.rms_a, default_angle_deg[k]);
-  }
-  if (phases) phases->finish();
-  t.finish();
-  return s;
-}
-
 MeshSpec parse_mesh(std::optional<TableReader> t) {
   MeshSpec m;
   if (!t) return m;
@@ -430,7 +340,7 @@ Case read_case_text(std::string_view text, const std::string& file_name) {
   c.winding = parse_winding(required_table(root, "winding", "at least turns_per_coil"),
                             c.stator.slots, c.machine.poles);
   c.materials = parse_materials(root.table("materials"));
-  c.supply = parse_supply(required_table(root, "supply", "at least rms_a"));
+  c.supply = parse_supply(required_table(root, "supply", "at least rms_a"), file_name);
   c.mesh = parse_mesh(root.table("mesh"));
   c.study = parse_study(root.table("study"));
   c.rotor_currents = parse_rotor_currents(root.table("rotor_currents"));

@@ -174,6 +174,26 @@ std::optional<TableReader> TableReader::table(const std::string& key) {
   throw error(key, fmt::format("expected a table, found {}", type_name(*n)));
 }
 
+std::vector<TableReader> TableReader::table_array(const std::string& key) {
+  mark(key);
+  std::vector<TableReader> out;
+  const auto* n = static_cast<const toml::node*>(node(key));
+  if (!n) return out;
+  const auto* array = n->as_array();
+  if (!array)
+    throw error(key, fmt::format("expected an array of tables ([[{}]]), found {}", key_path(key),
+                                 type_name(*n)));
+  for (std::size_t i = 0; i < array->size(); ++i) {
+    const auto* t = (*array)[i].as_table();
+    if (!t)
+      throw InputError(doc_->file, to_pos((*array)[i].source()), key_path(key),
+                       fmt::format("expected tables only, found {}", type_name((*array)[i])));
+    out.push_back(
+        TableReader(doc_, t, fmt::format("{}[{}]", key_path(key), i), to_pos(t->source())));
+  }
+  return out;
+}
+
 void TableReader::finish(
     const std::vector<std::pair<std::string, std::string>>& not_applicable) const {
   for (const auto& [k, v] : *static_cast<const toml::table*>(table_)) {

@@ -30,6 +30,8 @@ class TableReader {
   std::optional<bool> boolean(const std::string& key);
   std::optional<std::vector<double>> number_array(const std::string& key);
   std::optional<TableReader> table(const std::string& key);
+  // An array of tables ([[key]] in TOML); each element's path is "key[i]". Absent: empty.
+  std::vector<TableReader> table_array(const std::string& key);
   std::vector<std::string> keys() const;
   // Marks keys as belonging to the schema without reading them (for "does not apply" messages).
   void know(const std::string& key) { known_.push_back(key); }

@@ -5,9 +5,83 @@
 #include <stdexcept>
 
 namespace gapflux {
+namespace {
+
+using nlohmann::json;
+
+constexpr double rad_to_deg = 180.0 / 3.14159265358979323846;
+
+json phasor_json(const Phasor& x, const char* unit_key) {
+  return {{unit_key, std::abs(x)}, {"angle_deg", std::arg(x) * rad_to_deg}};
+}
+
+json harmonics_json(const std::vector<HarmonicPhasors>& hs, const char* unit_key) {
+  json out = json::array();
+  for (const HarmonicPhasors& h : hs)
+    out.push_back({{"order", h.order},
+                   {"a", phasor_json(h.abc[0], unit_key)},
+                   {"b", phasor_json(h.abc[1], unit_key)},
+                   {"c", phasor_json(h.abc[2], unit_key)},
+                   {"positive", phasor_json(h.sequences.positive, unit_key)},
+                   {"negative", phasor_json(h.sequences.negative, unit_key)},
+                   {"zero", phasor_json(h.sequences.zero, unit_key)}});
+  return out;
+}
+
+void add_analysis(json& j, const RunAnalysis& a, std::size_t max_waves) {
+  j["analysis"] = {{"periods", a.periods}, {"window_start_s", a.window_start_s}};
+  if (!a.note.empty()) j["analysis"]["note"] = a.note;
+  if (a.periods < 1) return;
+  const HarmonicPhasors* f = find_order(a.current, 1.0);
+  j["supply"]["unbalance"] = {
+      {"vuf_pct", a.current_unbalance.vuf_pct},
+      {"lvur_pct", a.current_unbalance.lvur_pct},
+      {"pvur_pct", a.current_unbalance.pvur_pct},
+      {"quantity", "phase currents, fundamental phasors"},
+      {"definitions",
+       {{"vuf_pct", "|negative| / |positive| sequence (IEC 61000-4-30 / IEC 60034-26)"},
+        {"lvur_pct",
+         "max deviation of |Ia−Ib|, |Ib−Ic|, |Ic−Ia| from their mean / mean (NEMA MG-1 form)"},
+        {"pvur_pct", "max deviation of |Ia|, |Ib|, |Ic| from their mean / mean (IEEE form)"}}}};
+  if (f)
+    j["supply"]["current_sequence"] = {{"positive_a", std::abs(f->sequences.positive)},
+                                       {"negative_a", std::abs(f->sequences.negative)},
+                                       {"zero_a", std::abs(f->sequences.zero)},
+                                       {"values", "RMS of the fundamental"}};
+  j["supply"]["current_harmonics"] = harmonics_json(a.current, "rms_a");
+  j["field"]["flux_linkage_harmonics"] = harmonics_json(a.flux_linkage, "rms_wb");
+  j["field"]["emf_harmonics"] = harmonics_json(a.emf, "rms_v");
+  json space = json::array();
+  for (const SpaceHarmonic& h : a.space_harmonics)
+    space.push_back({{"order_mech", h.order_mech},
+                     {"order_el", h.order_el},
+                     {"amplitude_tesla", h.amplitude_tesla},
+                     {"label", h.label}});
+  j["airgap"]["space_harmonics"] = space;
+  json waves = json::array();
+  for (std::size_t i = 0; i < a.waves.size() && i < max_waves; ++i) {
+    const Wave& w = a.waves[i].wave;
+    waves.push_back({{"space_order_el", w.space_order_el},
+                     {"space_order_mech", w.space_order_mech},
+                     {"time_order", w.time_order},
+                     {"direction", w.direction > 0           ? "forward"
+                                   : w.direction < 0         ? "backward"
+                                   : w.space_order_mech == 0 ? "pulsating"
+                                                             : "static"},
+                     {"amplitude_tesla", w.amplitude_tesla},
+                     {"phase_deg", w.phase_rad * rad_to_deg},
+                     {"label", a.waves[i].label}});
+  }
+  j["airgap"]["waves"] = waves;
+  j["airgap"]["locus"] = {
+      {"major_tesla", a.locus.major_tesla},       {"minor_tesla", a.locus.minor_tesla},
+      {"axis_ratio", a.locus.axis_ratio},         {"forward_tesla", a.locus.forward_tesla},
+      {"backward_tesla", a.locus.backward_tesla}, {"major_axis_deg_el", a.locus.major_axis_deg_el}};
+}
+
+}  // namespace
 
 void write_summary_json(const std::string& path, const RunSummary& s) {
-  using nlohmann::json;
   json j;
   j["schema"] = "gapflux-summary/1";
   j["case_name"] = s.case_name;
@@ -58,8 +132,15 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                   {"band_pitches_per_step", s.band_pitches_per_step}};
   if (s.torque_available) {
     json harmonics = json::array();
-    for (const auto& [order, amplitude] : s.torque_harmonics)
-      harmonics.push_back({{"order", order}, {"amplitude_nm", amplitude}});
+    if (s.analysis)
+      for (const TorqueHarmonic& t : s.analysis->torque_harmonics)
+        harmonics.push_back({{"order", t.order},
+                             {"amplitude_nm", t.amplitude_nm},
+                             {"label", t.label},
+                             {"source", t.source}});
+    else
+      for (const auto& [order, amplitude] : s.torque_harmonics)
+        harmonics.push_back({{"order", order}, {"amplitude_nm", amplitude}});
     j["torque"] = {
         {"mean_nm", s.torque_mean_nm},       {"min_nm", s.torque_min_nm},
         {"max_nm", s.torque_max_nm},         {"peak_to_peak_nm", s.torque_max_nm - s.torque_min_nm},
@@ -71,6 +152,15 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
       {"note", s.bar_rms_a > 0 ? "imposed on the bars, not induced: the cage's own "
                                  "currents are not modelled"
                                : "none: the cage's own currents are not modelled"}};
+  j["supply"]["form"] = s.supply_form;
+  j["supply"]["frequency_detected"] = s.frequency_detected;
+  if (s.analysis) add_analysis(j, *s.analysis, 40);
+  j["cautions"] = {
+      "Results come from a 2-D magnetostatic model with imposed currents; the cage's own induced "
+      "currents, end effects, skew and temperature rise are not modelled.",
+      "Decisions on derating, protection settings or continued operation of a motor follow the "
+      "applicable standards and local codes, the motor's maker and licensed engineering practice, "
+      "not these figures alone."};
   std::ofstream out(path);
   out << j.dump(2) << "\n";
   if (!out) throw std::runtime_error("cannot write " + path);

@@ -1,5 +1,7 @@
 #include "solver/time_grid.hpp"
 
+#include "solver/supply_currents.hpp"
+
 #include <fmt/format.h>
 
 #include <cmath>
@@ -49,6 +51,7 @@ TimeGrid make_time_grid(const Case& c, double band_pitch_rad) {
   g.dt_s = 1.0 / (g.frequency_hz * n);
   g.steps = std::max(1, static_cast<int>(std::lround(s.periods * n)));
   g.discarded_steps = static_cast<int>(std::lround(s.discard_periods * n));
+  check_supply_on_grid(c, g);
   return g;
 }
 

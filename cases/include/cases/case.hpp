@@ -3,6 +3,7 @@
 // (metres, radians, amperes, hertz). One struct per TOML table; docs/case-file.md lists every key
 // with its unit, range and default. Geometric feasibility is checked in geometry/ (it needs the
 // derived shapes), using `sources` to point back at the line of the offending key.
+#include <array>
 #include <string>
 #include <vector>
 
@@ -110,11 +111,37 @@ struct PhaseSpec {
   double angle_rad = 0.0;
 };
 
+enum class SupplyForm { phases, sequence, waveform };
+
+// One time-harmonic component of the phase currents beyond the fundamental, resolved per phase:
+// i_k(t) ⊃ √2·rms_a[k]·cos(order·ω·t + angle_rad[k]). Orders may be non-integer
+// (interharmonics). A component given for all phases follows each phase's fundamental timing
+// (angle_k = angle + order·φ_k), so its sequence follows from the angles, not from a rule.
+struct CurrentComponent {
+  double order = 1.0;
+  std::array<double, 3> rms_a{0, 0, 0};
+  std::array<double, 3> angle_rad{0, 0, 0};
+  std::string key_path;  // "supply.harmonics[i]", for checks made after parsing
+};
+
+// Measured phase currents (CSV: time, i_a, i_b, i_c), used as given and interpolated linearly
+// onto the time steps.
+struct WaveformTable {
+  std::string file;  // as resolved against the case file's folder
+  std::vector<double> time_s;
+  std::array<std::vector<double>, 3> current_a;
+};
+
 struct SupplySpec {
   Feed feed = Feed::current;
   double frequency_hz = 50.0;
-  double rms_a = 0.0;   // balanced RMS phase current
-  PhaseSpec phases[3];  // a, b, c after defaults: rms_a and 0, −120°, −240°
+  bool frequency_detected = false;  // true: taken from the waveform table, not the case
+  SupplyForm form = SupplyForm::phases;
+  double rms_a = 0.0;     // balanced RMS phase current, when given
+  PhaseSpec phases[3];    // fundamental of a, b, c (from rms_a/phases or from the sequences)
+  PhaseSpec sequence[3];  // zero, positive, negative as given (form == sequence)
+  std::vector<CurrentComponent> harmonics;
+  WaveformTable waveform;  // form == waveform
 };
 
 enum class Symmetry { automatic, full };

@@ -9,5 +9,8 @@ namespace gapflux {
 
 std::vector<std::complex<double>> real_dft(const std::vector<double>& samples);
 std::vector<double> amplitude_spectrum(const std::vector<double>& samples);
+// 2-D DFT of a real rows × cols array (row-major): out[k0·(cols/2 + 1) + k1] =
+// Σ_n Σ_j x[n][j]·e^{−2πi(k0·n/rows + k1·j/cols)}, for k0 < rows, k1 ≤ cols/2.
+std::vector<std::complex<double>> real_dft_2d(const std::vector<double>& data, int rows, int cols);
 
 }  // namespace gapflux

@@ -5,7 +5,10 @@
 #include <string>
 #include <vector>
 
+#include <optional>
+
 #include "geometry/winding_layout.hpp"
+#include "postproc/run_analysis.hpp"
 
 namespace gapflux {
 
@@ -37,6 +40,9 @@ struct RunSummary {
   double torque_mean_nm = 0, torque_min_nm = 0, torque_max_nm = 0, torque_ripple_pct = 0;
   std::vector<std::pair<double, double>> torque_harmonics;  // (order in multiples of f, amplitude)
   double bar_rms_a = 0.0;                                   // imposed rotor currents, 0 if none
+  std::optional<RunAnalysis> analysis;  // time stepping: sequences, waves, locus, attribution
+  std::string supply_form;              // "phases", "sequence" or "waveform"
+  bool frequency_detected = false;
   // solver
   int steps = 0, newton_iterations = 0;
   bool converged = false;

@@ -23,6 +23,9 @@ struct TimeGrid {
     return rotor_angle0_rad + mechanical_speed_rad_s * step * dt_s;
   }
   int retained_steps() const { return steps - discarded_steps; }
+  // Spectra use the last whole electrical periods of the retained steps.
+  int analysis_periods() const { return retained_steps() / steps_per_period; }
+  int analysis_first_step() const { return steps - analysis_periods() * steps_per_period; }
 };
 
 // `band_pitch_rad`: angle between neighbouring band nodes. Throws InputError

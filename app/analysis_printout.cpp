@@ -1,0 +1,58 @@
+#include "analysis_printout.hpp"
+
+#include <fmt/format.h>
+
+#include <cmath>
+#include <numbers>
+
+namespace gapflux {
+
+void print_analysis_table(std::FILE* out, const RunAnalysis& a, double torque_mean_nm,
+                          double torque_ripple_pct) {
+  if (a.periods < 1) {
+    fmt::print(out, "analysis: {}\n", a.note);
+    return;
+  }
+  fmt::print(out, "\nsupply response over {} electrical period(s) from t = {:.6g} s\n", a.periods,
+             a.window_start_s);
+  const auto& u = a.current_unbalance;
+  fmt::print(out, "  current unbalance: VUF {:.3f} %  LVUR {:.3f} %  PVUR {:.3f} %\n", u.vuf_pct,
+             u.lvur_pct, u.pvur_pct);
+  fmt::print(out, "  {:>7}  {:>10} {:>10} {:>10}   {:>10} {:>10} {:>10}\n", "order", "|Ia| A",
+             "|Ib| A", "|Ic| A", "pos A", "neg A", "zero A");
+  int shown = 0;
+  for (const HarmonicPhasors& h : a.current) {
+    if (++shown > 10) break;
+    fmt::print(out, "  {:>7.3g}  {:>10.4g} {:>10.4g} {:>10.4g}   {:>10.4g} {:>10.4g} {:>10.4g}\n",
+               h.order, std::abs(h.abc[0]), std::abs(h.abc[1]), std::abs(h.abc[2]),
+               std::abs(h.sequences.positive), std::abs(h.sequences.negative),
+               std::abs(h.sequences.zero));
+  }
+  fmt::print(out, "  largest airgap waves (B_r at mid-gap):\n");
+  fmt::print(out, "  {:>6} {:>7} {:>8} {:>10} {:>10}  {}\n", "ν el", "m mech", "h (×f)",
+             "direction", "B T", "reading");
+  shown = 0;
+  for (const LabelledWave& lw : a.waves) {
+    if (++shown > 10) break;
+    const Wave& w = lw.wave;
+    const char* dir = w.direction > 0 ? "forward" : w.direction < 0 ? "backward" : "standing";
+    fmt::print(out, "  {:>6.3g} {:>7} {:>8.4g} {:>10} {:>10.4f}  {}\n", w.space_order_el,
+               w.space_order_mech, w.time_order, dir, w.amplitude_tesla, lw.label);
+  }
+  const FieldLocus& l = a.locus;
+  fmt::print(out,
+             "  field locus: forward {:.4f} T, backward {:.4f} T → ellipse {:.4f} × {:.4f} T, "
+             "axis ratio {:.4f}, major axis at {:.1f}° el\n",
+             l.forward_tesla, l.backward_tesla, l.major_tesla, l.minor_tesla, l.axis_ratio,
+             l.major_axis_deg_el);
+  fmt::print(out, "  torque: mean {:.4f} N·m, ripple {:.2f} %\n", torque_mean_nm,
+             torque_ripple_pct);
+  shown = 0;
+  for (const TorqueHarmonic& t : a.torque_harmonics) {
+    if (++shown > 6) break;
+    fmt::print(out, "  {:>8.4g}f {:>10.4f} N·m  {}{}\n", t.order, t.amplitude_nm, t.label,
+               t.source.empty() ? "" : " (" + t.source + ")");
+  }
+}
+
+}  // namespace gapflux

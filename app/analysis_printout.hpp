@@ -1,0 +1,14 @@
+#pragma once
+// The short table `gapflux run` prints after a time-stepping study: unbalance metrics, sequence
+// currents, the largest airgap waves with their direction, the field locus and the torque's
+// largest harmonics.
+#include <cstdio>
+
+#include "postproc/run_analysis.hpp"
+
+namespace gapflux {
+
+void print_analysis_table(std::FILE* out, const RunAnalysis& a, double torque_mean_nm,
+                          double torque_ripple_pct);
+
+}  // namespace gapflux

@@ -1,0 +1,23 @@
+#pragma once
+// [supply]: the current set the winding carries, as per-phase magnitudes and angles, as
+// symmetrical components, with harmonics, or as a measured waveform table.
+#include <string>
+
+#include "cases/case.hpp"
+#include "table_reader.hpp"
+
+namespace gapflux {
+
+// `case_file` locates a waveform table given by a relative path.
+SupplySpec parse_supply(TableReader t, const std::string& case_file);
+
+// Reads a CSV of time_s, i_a, i_b, i_c (header line and '#' comments allowed); errors name the
+// CSV's own line. `key_path` is the case key that named the file.
+WaveformTable read_waveform_csv(const std::string& path, const std::string& key_path);
+
+// Fundamental frequency of a measured set: a hysteresis zero-crossing count on the largest
+// phase, refined by maximising a Hann-windowed single-frequency DFT. Throws a message when the
+// table holds fewer than two periods.
+double detect_fundamental_hz(const WaveformTable& table);
+
+}  // namespace gapflux

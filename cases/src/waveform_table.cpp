@@ -1,0 +1,143 @@
+// Measured phase currents from a CSV, and the fundamental frequency they hold.
+#include <fmt/format.h>
+
+#include <charconv>
+#include <cmath>
+#include <complex>
+#include <fstream>
+#include <numbers>
+#include <sstream>
+
+#include "supply_reader.hpp"
+
+namespace gapflux {
+namespace {
+
+std::string trim(const std::string& s) {
+  const auto a = s.find_first_not_of(" \t\r");
+  if (a == std::string::npos) return "";
+  return s.substr(a, s.find_last_not_of(" \t\r") - a + 1);
+}
+
+bool parse_number(const std::string& text, double& value) {
+  const std::string t = trim(text);
+  if (t.empty()) return false;
+  const char* end = t.data() + t.size();
+  auto [ptr, ec] = std::from_chars(t.data(), end, value);
+  return ec == std::errc() && ptr == end && std::isfinite(value);
+}
+
+}  // namespace
+
+WaveformTable read_waveform_csv(const std::string& path, const std::string& key_path) {
+  std::ifstream in(path);
+  if (!in) throw std::runtime_error(fmt::format("cannot open the waveform table {}", path));
+  WaveformTable w;
+  w.file = path;
+  std::string line;
+  int line_no = 0;
+  bool seen_data_line = false;
+  while (std::getline(in, line)) {
+    ++line_no;
+    if (const auto hash = line.find('#'); hash != std::string::npos) line.resize(hash);
+    if (trim(line).empty()) continue;
+    std::vector<std::string> fields;
+    std::stringstream ss(line);
+    for (std::string f; std::getline(ss, f, ',');) fields.push_back(f);
+    double v[4];
+    bool numeric = fields.size() == 4;
+    for (std::size_t i = 0; numeric && i < 4; ++i) numeric = parse_number(fields[i], v[i]);
+    if (!numeric) {
+      if (!seen_data_line && w.time_s.empty()) {  // a header line
+        seen_data_line = true;
+        continue;
+      }
+      throw InputError(
+          path, {line_no, 1}, key_path,
+          fmt::format("expected 4 numbers (time_s, i_a, i_b, i_c), found \"{}\"", trim(line)));
+    }
+    seen_data_line = true;
+    if (!w.time_s.empty() && !(v[0] > w.time_s.back()))
+      throw InputError(
+          path, {line_no, 1}, key_path,
+          fmt::format("time {} s does not increase (previous row {} s)", v[0], w.time_s.back()));
+    w.time_s.push_back(v[0]);
+    for (int k = 0; k < 3; ++k) w.current_a[k].push_back(v[k + 1]);
+  }
+  if (w.time_s.size() < 8)
+    throw InputError(path, {line_no, 1}, key_path,
+                     fmt::format("holds {} rows; a waveform needs at least 8", w.time_s.size()));
+  return w;
+}
+
+double detect_fundamental_hz(const WaveformTable& w) {
+  const std::size_t n = w.time_s.size();
+  const double t0 = w.time_s.front(), duration = w.time_s.back() - t0;
+  // The largest phase, its mean removed.
+  int best = 0;
+  double best_rms = -1, best_mean = 0;
+  for (int k = 0; k < 3; ++k) {
+    double mean = 0, sq = 0;
+    for (double x : w.current_a[k]) mean += x;
+    mean /= n;
+    for (double x : w.current_a[k]) sq += (x - mean) * (x - mean);
+    if (sq > best_rms) best = k, best_rms = sq, best_mean = mean;
+  }
+  best_rms = std::sqrt(best_rms / n);
+  if (!(best_rms > 0))
+    throw std::runtime_error("the waveform table carries no alternating current");
+  // Coarse: rising crossings with hysteresis, so ripple near zero does not count.
+  const std::vector<double>& x = w.current_a[best];
+  const double threshold = 0.5 * best_rms;
+  std::vector<double> rising;
+  bool below = x[0] - best_mean < -threshold;
+  for (std::size_t i = 1; i < n; ++i) {
+    const double v = x[i] - best_mean;
+    if (v < -threshold) below = true;
+    if (below && v > threshold) {
+      rising.push_back(w.time_s[i]);
+      below = false;
+    }
+  }
+  if (rising.size() < 3)
+    throw std::runtime_error(
+        fmt::format("cannot detect the fundamental: the table holds fewer than two clear periods "
+                    "({} rising crossings in {:.6g} s)",
+                    rising.size(), duration));
+  const double coarse_hz = (rising.size() - 1) / (rising.back() - rising.front());
+  // Fine: the frequency that maximises a Hann-windowed DFT of the record (trapezoid weights, so
+  // uneven sampling is allowed).
+  const auto magnitude = [&](double f) {
+    std::complex<double> sum = 0;
+    for (std::size_t i = 0; i < n; ++i) {
+      const double dt = 0.5 * ((i + 1 < n ? w.time_s[i + 1] : w.time_s[i]) -
+                               (i > 0 ? w.time_s[i - 1] : w.time_s[i]));
+      const double u = (w.time_s[i] - t0) / duration;
+      const double hann = 0.5 - 0.5 * std::cos(2.0 * std::numbers::pi * u);
+      sum += (x[i] - best_mean) * hann * dt *
+             std::polar(1.0, -2.0 * std::numbers::pi * f * (w.time_s[i] - t0));
+    }
+    return std::abs(sum);
+  };
+  const int scan = 200;
+  double lo = 0.9 * coarse_hz, hi = 1.1 * coarse_hz, step = (hi - lo) / scan, f_best = coarse_hz;
+  double m_best = -1;
+  for (int i = 0; i <= scan; ++i) {
+    const double f = lo + i * step, m = magnitude(f);
+    if (m > m_best) m_best = m, f_best = f;
+  }
+  // Golden-section search on the bracketing interval.
+  double a = f_best - step, b = f_best + step;
+  const double g = 0.5 * (std::sqrt(5.0) - 1.0);
+  double c = b - g * (b - a), d = a + g * (b - a), mc = magnitude(c), md = magnitude(d);
+  while (b - a > 1e-12 * coarse_hz) {
+    if (mc > md) {
+      b = d, d = c, md = mc, c = b - g * (b - a), mc = magnitude(c);
+    } else {
+      a = c, c = d, mc = md, d = a + g * (b - a), md = magnitude(d);
+    }
+  }
+  return 0.5 * (a + b);
+}
+
+}  // namespace gapflux

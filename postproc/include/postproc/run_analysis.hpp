@@ -1,0 +1,63 @@
+#pragma once
+// What a time-stepping run's supply did, from its recorded steps: sequence content of the phase
+// currents, flux linkages and EMFs per time harmonic; the current set's unbalance metrics; the
+// airgap's space harmonics per step and averaged; its space–time waves with direction; the
+// field locus; and the torque harmonics with their likely sources. Everything is computed over
+// the last whole electrical periods of the retained steps (the analysis window).
+#include <array>
+#include <complex>
+#include <string>
+#include <vector>
+
+#include "postproc/airgap_waves.hpp"
+#include "postproc/harmonic_labels.hpp"
+#include "postproc/results_file.hpp"
+#include "postproc/sequences.hpp"
+
+namespace gapflux {
+
+struct RunRecord {
+  double frequency_hz = 50.0;
+  int steps_per_period = 0;
+  int periods = 0;             // whole periods in the analysis window
+  int first_step = 0;          // first step of the window
+  std::vector<double> time_s;  // every finished step
+  std::array<std::vector<double>, 3> current_a, flux_linkage_wb;  // every finished step
+  AirgapRecord airgap;  // full circle, every finished step
+  std::vector<double> torque_nm;
+  MachineOrders orders;
+};
+
+struct SpaceHarmonic {
+  int order_mech = 0;
+  double order_el = 0.0;
+  double amplitude_tesla = 0.0;  // mean over the window
+  std::string label;
+};
+
+struct LabelledWave {
+  Wave wave;
+  std::string label;
+};
+
+struct RunAnalysis {
+  int periods = 0;
+  double window_start_s = 0.0;
+  std::vector<HarmonicPhasors> current, flux_linkage, emf;
+  UnbalanceMetrics current_unbalance;         // on the fundamental current phasors
+  std::vector<double> space_amplitude_tesla;  // steps × orders (every finished step)
+  int space_orders = 0;
+  std::vector<SpaceHarmonic> space_harmonics;  // above 0.2 % of the fundamental, by order
+  std::vector<LabelledWave> waves;             // above 1e-4 of the largest, largest first
+  FieldLocus locus;
+  std::vector<std::complex<double>> fundamental_path;  // space-fundamental phasor per window step
+  std::vector<TorqueHarmonic> torque_harmonics;        // largest first
+  std::string note;                                    // why parts are missing, if they are
+};
+
+RunAnalysis analyse_run(const RunRecord& record);
+
+// Writes the analysis/ group of results.h5 (docs/results.md).
+void write_analysis(ResultsFile& file, const RunAnalysis& a);
+
+}  // namespace gapflux

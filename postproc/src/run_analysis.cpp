@@ -1,0 +1,195 @@
+#include "postproc/run_analysis.hpp"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <cmath>
+#include <numbers>
+
+#include "postproc/spectrum.hpp"
+
+namespace gapflux {
+namespace {
+
+std::array<std::vector<double>, 3> window(const std::array<std::vector<double>, 3>& all, int first,
+                                          int count) {
+  std::array<std::vector<double>, 3> out;
+  for (int k = 0; k < 3; ++k) out[k].assign(all[k].begin() + first, all[k].begin() + first + count);
+  return out;
+}
+
+std::vector<TorqueHarmonic> torque_harmonics(const RunRecord& r, const std::vector<Wave>& waves) {
+  const int count = r.periods * r.steps_per_period;
+  const std::vector<double> kept(r.torque_nm.begin() + r.first_step,
+                                 r.torque_nm.begin() + r.first_step + count);
+  double mean = 0;
+  for (double v : kept) mean += v / count;
+  const std::vector<double> spectrum = amplitude_spectrum(kept);
+  // A floor so that round-off of a constant torque lists nothing.
+  double scale = std::abs(mean);
+  for (double v : kept) scale = std::max(scale, std::abs(v));
+  std::vector<std::pair<double, double>> found;
+  const std::size_t last = spectrum.size() - (count % 2 == 0 ? 1 : 0);
+  for (std::size_t k = 1; k < last; ++k)
+    if (spectrum[k] > 1e-6 * scale) found.emplace_back(double(k) / r.periods, spectrum[k]);
+  std::sort(found.begin(), found.end(),
+            [](const auto& a, const auto& b) { return a.second > b.second; });
+  if (found.size() > 12) found.resize(12);
+  return attribute_torque_harmonics(found, waves, r.orders, 0.5 / r.periods);
+}
+
+}  // namespace
+
+RunAnalysis analyse_run(const RunRecord& r) {
+  RunAnalysis a;
+  const int steps = static_cast<int>(r.time_s.size());
+  const int p = r.orders.pole_pairs;
+  // Space harmonics of every finished step.
+  const int ns = r.airgap.samples;
+  a.space_orders = ns / 2;
+  for (int n = 0; n < r.airgap.steps; ++n) {
+    const auto row = space_amplitudes(&r.airgap.b_r_tesla[static_cast<std::size_t>(n) * ns], ns);
+    a.space_amplitude_tesla.insert(a.space_amplitude_tesla.end(), row.begin(), row.end());
+  }
+  a.periods = r.periods;
+  const int count = r.periods * r.steps_per_period;
+  if (r.periods < 1 || r.first_step + count > steps || r.airgap.steps < steps) {
+    a.note = "fewer than one whole electrical period retained: no spectra, sequences or waves";
+    return a;
+  }
+  a.window_start_s = r.time_s[r.first_step];
+
+  // Sequence content per time harmonic.
+  const double floor = 1e-4;
+  a.current = three_phase_harmonics(window(r.current_a, r.first_step, count), r.periods,
+                                    a.window_start_s, r.frequency_hz, floor);
+  a.flux_linkage = three_phase_harmonics(window(r.flux_linkage_wb, r.first_step, count), r.periods,
+                                         a.window_start_s, r.frequency_hz, floor);
+  // EMF e = dψ/dt as the spectral derivative jhω·ψ_h: exact over whole periods, and free of the
+  // half-step lag a difference quotient has.
+  for (HarmonicPhasors h : a.flux_linkage) {
+    const std::complex<double> d(0.0, 2.0 * std::numbers::pi * r.frequency_hz * h.order);
+    for (auto& x : h.abc) x *= d;
+    h.sequences = fortescue(h.abc);
+    a.emf.push_back(h);
+  }
+  if (const HarmonicPhasors* f = find_order(a.current, 1.0))
+    a.current_unbalance = unbalance_metrics(f->abc);
+
+  // Mean space spectrum over the window, labelled.
+  std::vector<double> mean(static_cast<std::size_t>(a.space_orders), 0.0);
+  for (int n = r.first_step; n < r.first_step + count; ++n)
+    for (int m = 0; m < a.space_orders; ++m)
+      mean[m] += a.space_amplitude_tesla[static_cast<std::size_t>(n) * a.space_orders + m] / count;
+  const double fundamental = p < a.space_orders ? mean[p] : 0.0;
+  for (int m = 1; m < a.space_orders; ++m)
+    if (m == p || mean[m] > 2e-3 * fundamental)
+      a.space_harmonics.push_back({m, double(m) / p, mean[m], space_order_label(r.orders, m)});
+
+  // Space–time waves over the window.
+  AirgapRecord win;
+  win.theta0_rad = r.airgap.theta0_rad;
+  win.samples = ns;
+  win.steps = count;
+  win.b_r_tesla.assign(r.airgap.b_r_tesla.begin() + static_cast<long>(r.first_step) * ns,
+                       r.airgap.b_r_tesla.begin() + static_cast<long>(r.first_step + count) * ns);
+  const std::vector<Wave> waves =
+      space_time_waves(win, r.periods, a.window_start_s, r.frequency_hz, p, 1e-4);
+  const double tol = 0.5 / r.periods;
+  for (const Wave& w : waves) a.waves.push_back({w, wave_label(r.orders, w, tol)});
+  a.locus = field_locus(waves, p);
+  a.fundamental_path = space_fundamental(win, p);
+  a.torque_harmonics = torque_harmonics(r, waves);
+  return a;
+}
+
+namespace {
+
+void write_harmonics(ResultsFile& f, const std::string& group,
+                     const std::vector<HarmonicPhasors>& hs, const std::string& units) {
+  std::vector<double> order, abc, seq;
+  for (const HarmonicPhasors& h : hs) {
+    order.push_back(h.order);
+    for (const Phasor& x : h.abc) abc.insert(abc.end(), {std::abs(x), std::arg(x)});
+    for (const Phasor& x : {h.sequences.zero, h.sequences.positive, h.sequences.negative})
+      seq.insert(seq.end(), {std::abs(x), std::arg(x)});
+  }
+  f.write(group + "/order", order, "1");
+  f.write(group + "/phases", abc, units + " RMS, rad", 6);
+  f.write(group + "/sequences", seq, units + " RMS, rad", 6);
+  f.attribute(group + "/phases", "columns",
+              std::string("|a|, angle a, |b|, angle b, |c|, angle c"));
+  f.attribute(group + "/sequences", "columns",
+              std::string("|zero|, angle zero, |positive|, angle positive, |negative|, angle "
+                          "negative"));
+}
+
+}  // namespace
+
+void write_analysis(ResultsFile& f, const RunAnalysis& a) {
+  f.write("analysis/space_harmonics/amplitude_per_step", a.space_amplitude_tesla, "T",
+          static_cast<std::size_t>(std::max(1, a.space_orders)));
+  f.attribute("analysis", "periods", static_cast<long>(a.periods));
+  f.attribute("analysis", "window_start_s", a.window_start_s);
+  if (!a.note.empty()) f.attribute("analysis", "note", a.note);
+  if (a.periods < 1) return;
+  write_harmonics(f, "analysis/current", a.current, "A");
+  write_harmonics(f, "analysis/flux_linkage", a.flux_linkage, "Wb");
+  write_harmonics(f, "analysis/emf", a.emf, "V");
+  f.attribute("analysis/current", "vuf_pct", a.current_unbalance.vuf_pct);
+  f.attribute("analysis/current", "lvur_pct", a.current_unbalance.lvur_pct);
+  f.attribute("analysis/current", "pvur_pct", a.current_unbalance.pvur_pct);
+
+  std::vector<int> orders;
+  std::vector<double> amplitude;
+  std::vector<std::string> labels;
+  for (const SpaceHarmonic& h : a.space_harmonics) {
+    orders.push_back(h.order_mech);
+    amplitude.push_back(h.amplitude_tesla);
+    labels.push_back(h.label);
+  }
+  f.write("analysis/space_harmonics/order_mech", orders, "1");
+  f.write("analysis/space_harmonics/amplitude", amplitude, "T");
+  f.write_strings("analysis/space_harmonics/label", labels);
+
+  std::vector<int> space, direction;
+  std::vector<double> time_order, wave_amplitude, phase;
+  std::vector<std::string> wave_labels;
+  for (const LabelledWave& lw : a.waves) {
+    space.push_back(lw.wave.space_order_mech);
+    direction.push_back(lw.wave.direction);
+    time_order.push_back(lw.wave.time_order);
+    wave_amplitude.push_back(lw.wave.amplitude_tesla);
+    phase.push_back(lw.wave.phase_rad);
+    wave_labels.push_back(lw.label);
+  }
+  f.write("analysis/waves/space_order_mech", space, "1");
+  f.write("analysis/waves/time_order", time_order, "1");
+  f.write("analysis/waves/direction", direction, "1");
+  f.write("analysis/waves/amplitude", wave_amplitude, "T");
+  f.write("analysis/waves/phase", phase, "rad");
+  f.write_strings("analysis/waves/label", wave_labels);
+
+  std::vector<double> path;
+  for (const auto& z : a.fundamental_path) path.insert(path.end(), {z.real(), z.imag()});
+  f.write("analysis/locus/space_fundamental", path, "T", 2);
+  f.attribute("analysis/locus/space_fundamental", "major_tesla", a.locus.major_tesla);
+  f.attribute("analysis/locus/space_fundamental", "minor_tesla", a.locus.minor_tesla);
+  f.attribute("analysis/locus/space_fundamental", "axis_ratio", a.locus.axis_ratio);
+  f.attribute("analysis/locus/space_fundamental", "major_axis_deg_el", a.locus.major_axis_deg_el);
+
+  std::vector<double> t_order, t_amp;
+  std::vector<std::string> t_label, t_source;
+  for (const TorqueHarmonic& t : a.torque_harmonics) {
+    t_order.push_back(t.order);
+    t_amp.push_back(t.amplitude_nm);
+    t_label.push_back(t.label);
+    t_source.push_back(t.source);
+  }
+  f.write("analysis/torque_harmonics/order", t_order, "1");
+  f.write("analysis/torque_harmonics/amplitude", t_amp, "N*m");
+  f.write_strings("analysis/torque_harmonics/label", t_label);
+  f.write_strings("analysis/torque_harmonics/source", t_source);
+}
+
+}  // namespace gapflux
