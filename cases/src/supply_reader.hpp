@@ -16,8 +16,8 @@ SupplySpec parse_supply(TableReader t, const std::string& case_file);
 WaveformTable read_waveform_csv(const std::string& path, const std::string& key_path);
 
 // Fundamental frequency of a measured set: a hysteresis zero-crossing count on the largest
-// phase, refined by maximising a Hann-windowed single-frequency DFT. Throws a message when the
-// table holds fewer than two periods.
+// phase, refined by the Hann²-weighted least-squares sinusoid that explains most of the record.
+// Throws a message when the table holds fewer than two periods.
 double detect_fundamental_hz(const WaveformTable& table);
 
 }  // namespace gapflux

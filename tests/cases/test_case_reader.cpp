@@ -1,10 +1,15 @@
 // The case reader: units at the edges, defaults, where keys were written.
 #include <catch2/catch.hpp>
 
+#include <fmt/format.h>
+
 #include <cmath>
+#include <complex>
 #include <numbers>
 
 #include "cases/case_reader.hpp"
+#include "solver/supply_currents.hpp"
+#include "solver/time_grid.hpp"
 #include "test_support.hpp"
 
 using namespace gapflux;
@@ -64,4 +69,125 @@ TEST_CASE("integers are accepted where a number is asked for", "[cases]") {
   std::string text = test::read_text(test::example("pump_4p36s.toml"));
   text.replace(text.find("stack_length_mm = 150.0"), 23, "stack_length_mm = 150");
   CHECK(read_case_text(text, "inline.toml").machine.stack_length_m == Approx(0.15));
+}
+
+namespace {
+
+// The static pump case with its [supply] table replaced.
+std::string with_supply(const std::string& supply) {
+  std::string text = test::read_text(test::example("pump_4p36s.toml"));
+  const auto a = text.find("[supply]");
+  const auto b = text.find("\n[", a + 1);
+  return text.substr(0, a) + supply + text.substr(b);
+}
+
+constexpr double deg = std::numbers::pi / 180.0;
+
+std::complex<double> phasor(const PhaseSpec& p) {
+  return std::polar(p.rms_a, p.angle_rad);
+}
+
+}  // namespace
+
+// Fortescue's inverse (Fortescue 1918): a = X1 + X2 + X0, b = α²X1 + αX2 + X0,
+// c = αX1 + α²X2 + X0, with α = e^{j120°}; written out by hand below.
+TEST_CASE("a supply given by sequences resolves to the phases Fortescue's inverse gives",
+          "[cases][supply]") {
+  const Case c = read_case_text(with_supply("[supply]\n[supply.sequence]\n"
+                                            "positive = { rms_a = 10.0, angle_deg = 0.0 }\n"
+                                            "negative = { rms_a = 1.0, angle_deg = 30.0 }\n"
+                                            "zero = { rms_a = 0.5, angle_deg = -45.0 }\n"),
+                                "inline.toml");
+  CHECK(c.supply.form == SupplyForm::sequence);
+  const auto x1 = std::polar(10.0, 0.0), x2 = std::polar(1.0, 30 * deg),
+             x0 = std::polar(0.5, -45 * deg);
+  const auto a = std::polar(1.0, 120 * deg), a2 = std::polar(1.0, 240 * deg);
+  CHECK(std::abs(phasor(c.supply.phases[0]) - (x1 + x2 + x0)) < 1e-12);
+  CHECK(std::abs(phasor(c.supply.phases[1]) - (a2 * x1 + a * x2 + x0)) < 1e-12);
+  CHECK(std::abs(phasor(c.supply.phases[2]) - (a * x1 + a2 * x2 + x0)) < 1e-12);
+}
+
+TEST_CASE("harmonics follow each phase's timing, so their sequence comes from the angles",
+          "[cases][supply]") {
+  const Case c = read_case_text(
+      with_supply("[supply]\nrms_a = 10.0\n[supply.phases]\nb = { rms_a = 8.0 }\n"
+                  "[[supply.harmonics]]\norder = 5\npercent = 4.0\nangle_deg = 10.0\n"
+                  "[[supply.harmonics]]\norder = 2.5\nrms_a = 0.2\nphase = \"c\"\n"),
+      "inline.toml");
+  REQUIRE(c.supply.harmonics.size() == 2);
+  const CurrentComponent& h5 = c.supply.harmonics[0];
+  CHECK(h5.order == 5.0);
+  CHECK(h5.rms_a[0] == Approx(0.4));
+  CHECK(h5.rms_a[1] == Approx(0.32));  // 4 % of phase b's own 8 A
+  // angle + 5·φ_k: phase b at 10° + 5·(−120°) = −590° ≡ +130°: it leads a by 120°, so the set is
+  // negative sequence without a rule saying so.
+  CHECK(std::remainder(h5.angle_rad[1] - (10.0 - 600.0) * deg, 2 * std::numbers::pi) ==
+        Approx(0.0).margin(1e-12));
+  const CurrentComponent& inter = c.supply.harmonics[1];
+  CHECK(inter.rms_a[0] == 0.0);
+  CHECK(inter.rms_a[2] == Approx(0.2));
+  // The currents the solver sees: i_a(0) = √2·(10 + 0.4·cos 10°).
+  const auto i = supply_phase_currents_a(c.supply, 0.0);
+  CHECK(i[0] == Approx(std::sqrt(2.0) * (10.0 + 0.4 * std::cos(10 * deg))).epsilon(1e-12));
+}
+
+TEST_CASE("a measured waveform table: read, fundamental detected, interpolated, checked",
+          "[cases][supply]") {
+  const auto dir = test::temp_dir("waveform");
+  // 47.3 Hz with a 10 % fifth, 200 rows per period over 4.5 periods, with a header and comments.
+  const double f = 47.3;
+  std::string csv = "# invented test record\ntime_s,i_a,i_b,i_c\n";
+  std::vector<double> ia;
+  for (int n = 0; n <= 900; ++n) {
+    const double t = n / (200.0 * f);
+    double x[3];
+    for (int k = 0; k < 3; ++k) {
+      const double phase = 2 * std::numbers::pi * (f * t - k / 3.0);
+      x[k] = 10 * std::cos(phase) + 1 * std::cos(5 * phase);
+    }
+    ia.push_back(x[0]);
+    csv += fmt::format("{:.17g},{:.17g},{:.17g},{:.17g}\n", t, x[0], x[1], x[2]);
+  }
+  test::write_text(dir / "record.csv", csv);
+  const std::string study =
+      "\n[study]\nkind = \"time_stepping\"\nsteps_per_period = 24\nperiods = 4\nmotion = "
+      "\"locked\"\n";
+  std::string text = with_supply("[supply]\n[supply.waveform]\nfile = \"record.csv\"\n");
+  text.replace(text.find("\n[study]"), std::string("\n[study]").size(), "\n[old_study]");
+  // Keep the case's own study table out: a time-stepping study follows.
+  text = text.substr(0, text.find("\n[old_study]")) + study;
+  test::write_text(dir / "case.toml", text);
+  const Case c = read_case_file((dir / "case.toml").string());
+  CHECK(c.supply.form == SupplyForm::waveform);
+  CHECK(c.supply.frequency_detected);
+  // Detection on a clean record of 4.5 periods with a 10 % fifth: measured 5e-8 relative; the
+  // check allows 1e-6 (a window-fit estimate, not exact).
+  CHECK(c.supply.frequency_hz == Approx(f).epsilon(1e-6));
+  // At the table's own rows the interpolation returns the rows.
+  CHECK(supply_phase_currents_a(c.supply, 17 / (200.0 * f))[0] == Approx(ia[17]).epsilon(1e-12));
+  // Four periods need 4/f s; the table holds 4.5 periods: fine. Ask for six: the grid check
+  // names the key that gave the table.
+  REQUIRE_NOTHROW(make_time_grid(c, 0.01));
+  std::string longer = text;
+  longer.replace(longer.find("periods = 4"), 11, "periods = 6");
+  test::write_text(dir / "longer.toml", longer);
+  const Case d = read_case_file((dir / "longer.toml").string());
+  try {
+    make_time_grid(d, 0.01);
+    FAIL("a table shorter than the study was accepted");
+  } catch (const InputError& e) {
+    CHECK(e.key_path() == "supply.waveform.file");
+    CHECK_THAT(e.message(), Catch::Contains("the table covers"));
+    CHECK(e.pos().line > 0);
+  }
+  // A broken row is reported at the CSV's own line.
+  test::write_text(dir / "record.csv", "time_s,i_a,i_b,i_c\n0,1,2,3\n0.001,1,x,3\n");
+  try {
+    read_case_file((dir / "case.toml").string());
+    FAIL("a broken CSV row was accepted");
+  } catch (const InputError& e) {
+    CHECK(e.file() == (dir / "record.csv").string());
+    CHECK(e.pos().line == 3);
+    CHECK_THAT(e.message(), Catch::Contains("expected 4 numbers"));
+  }
 }
