@@ -1,5 +1,7 @@
 #include "case_printout.hpp"
 
+#include "postproc/sequences.hpp"
+
 #include <fmt/format.h>
 #include <fmt/ostream.h>
 
@@ -106,6 +108,23 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
       fmt::print(out, "{}phases.{} = {{ rms_a = {:.6g}, angle_deg = {:.6g} }}\n",
                  sp.form == SupplyForm::sequence ? "# " : "", names[k], sp.phases[k].rms_a,
                  sp.phases[k].angle_rad * to_deg);
+    // What the description amounts to, per order (Fortescue), before any field is solved.
+    std::array<Phasor, 3> f;
+    for (int k = 0; k < 3; ++k) f[k] = std::polar(sp.phases[k].rms_a, sp.phases[k].angle_rad);
+    const SequenceSet q = fortescue(f);
+    const UnbalanceMetrics u = unbalance_metrics(f);
+    fmt::print(out,
+               "# fundamental sequences: positive {:.4g} A, negative {:.4g} A, zero {:.4g} A; VUF "
+               "{:.3f} %, LVUR {:.3f} %, PVUR {:.3f} %\n",
+               std::abs(q.positive), std::abs(q.negative), std::abs(q.zero), u.vuf_pct, u.lvur_pct,
+               u.pvur_pct);
+    for (const CurrentComponent& h : sp.harmonics) {
+      std::array<Phasor, 3> x;
+      for (int k = 0; k < 3; ++k) x[k] = std::polar(h.rms_a[k], h.angle_rad[k]);
+      const SequenceSet hq = fortescue(x);
+      fmt::print(out, "# order {:g}: positive {:.4g} A, negative {:.4g} A, zero {:.4g} A\n",
+                 h.order, std::abs(hq.positive), std::abs(hq.negative), std::abs(hq.zero));
+    }
     for (const CurrentComponent& h : sp.harmonics)
       fmt::print(out,
                  "# {}: order {:g}: a {:.4g} A ∠{:.4g}°, b {:.4g} A ∠{:.4g}°, c {:.4g} A "

@@ -227,7 +227,8 @@ TEST_CASE("a missing case file is bad input too", "[cases][cli]") {
 
 TEST_CASE("the demo cases pass the check", "[cases][cli]") {
   for (const char* name :
-       {"pump_4p36s.toml", "compressor_2p24s.toml", "reference_radial_4p24s.toml"}) {
+       {"pump_4p36s.toml", "compressor_2p24s.toml", "reference_radial_4p24s.toml",
+        "pump_4p36s_running.toml", "pump_4p36s_disturbed.toml"}) {
     const auto result =
         test::run_command(fmt::format("{} check {}", GAPFLUX_BINARY, test::example(name)));
     INFO(result.output);
