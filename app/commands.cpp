@@ -57,6 +57,11 @@ int command_check(const std::string& case_path, const CommonOptions&) {
         p.grid.band_pitches_per_step > 0
             ? fmt::format(", band_pitches_per_step = {}", p.grid.band_pitches_per_step)
             : std::string());
+  if (p.c.study.kind == StudyKind::time_stepping) {
+    const int bars = p.c.rotor.kind == RotorKind::cage ? p.c.rotor.bars : 0;
+    if (const std::string w = slot_passing_warning(p.grid, p.c.stator.slots, bars); !w.empty())
+      fmt::print("warning: {}\n", w);
+  }
   std::cout << "check: ok\n";
   return 0;
 }

@@ -83,6 +83,9 @@ void TransientStudy::set_up() {
   grid_ = make_time_grid(case_, mesh_.stator_ring.pitch_rad);
   airgap_samples_ =
       case_.output.airgap_samples > 0 ? case_.output.airgap_samples : default_airgap_samples(mesh_);
+  const int bars = case_.rotor.kind == RotorKind::cage ? case_.rotor.bars : 0;
+  if (const std::string w = slot_passing_warning(grid_, case_.stator.slots, bars); !w.empty())
+    fmt::print(stderr, "warning: {}\n", w);
 }
 
 int TransientStudy::open_results() {

@@ -15,14 +15,24 @@ bool is_integer(double x) {
   return near(x, std::round(x));
 }
 
-// Smallest k ≥ 1 with ν = k·N/p ± 1, or 0.
-int slot_order_k(double nu, int count, int pole_pairs) {
+// Smallest k ≥ 1 with ν = k·N/p ± 1, or 0; `sign` gets the ±.
+int slot_order_k(double nu, int count, int pole_pairs, int* sign = nullptr) {
   if (count <= 0) return 0;
   for (int k = 1; k <= 8; ++k) {
     const double base = double(k) * count / pole_pairs;
-    if (near(nu, base - 1.0) || near(nu, base + 1.0)) return k;
+    for (int s : {-1, 1})
+      if (near(nu, base + s)) {
+        if (sign) *sign = s;
+        return k;
+      }
   }
   return 0;
+}
+
+// "k=1 (Q/p−1)": the same form for space orders and waves.
+std::string slot_name(const char* side, const char* count, int k, int sign) {
+  return fmt::format("{} slot harmonic k={} ({}{}/p{}1)", side, k, k == 1 ? "" : std::to_string(k),
+                     count, sign < 0 ? "−" : "+");
 }
 
 std::string dir_word(int direction) {
@@ -57,10 +67,11 @@ std::string space_order_label(const MachineOrders& m, int order_mech) {
   if (order_mech == 0) return "uniform (mean) field";
   if (near(nu, 1.0)) return "fundamental";
   std::vector<std::string> names;
-  if (int k = slot_order_k(nu, m.stator_slots, m.pole_pairs))
-    names.push_back(fmt::format("stator slot harmonic k={}", k));
-  if (int k = slot_order_k(nu, m.rotor_bars, m.pole_pairs))
-    names.push_back(fmt::format("rotor slot harmonic k={}", k));
+  int sign = 0;
+  if (int k = slot_order_k(nu, m.stator_slots, m.pole_pairs, &sign))
+    names.push_back(slot_name("stator", "Q", k, sign));
+  if (int k = slot_order_k(nu, m.rotor_bars, m.pole_pairs, &sign))
+    names.push_back(slot_name("rotor", "R", k, sign));
   if (is_integer(nu)) {
     const long v = std::lround(nu);
     if (m.integral_slot && v % 2 == 1 && v % 3 != 0) names.push_back("phase belt 6k±1");
@@ -77,7 +88,8 @@ std::string wave_label(const MachineOrders& m, const Wave& w, double tol) {
   const double nu = w.space_order_el;
   int k = 0;
   if (w.space_order_mech == 0) return "uniform pulsation";
-  if (is_rotor_slot_wave(m, w, tol, k)) return fmt::format("rotor slot harmonic k={}", k);
+  if (is_rotor_slot_wave(m, w, tol, k))  // m = p + k·R: ν = |k|·R/p + 1 for k > 0, − 1 for k < 0
+    return slot_name("rotor", "R", std::abs(k), k > 0 ? 1 : -1) + ", turning with the rotor";
   if (near(nu, 1.0)) {
     if (near(w.time_order, 1.0, tol))
       return w.direction > 0 ? "fundamental, forward (positive sequence)"
@@ -131,6 +143,9 @@ std::vector<TorqueHarmonic> attribute_torque_harmonics(
              (is_fund(*best_a, 1) || is_fund(*best_b, 1)))
       t.label = fmt::format("{:g}f family: fundamental × supply time harmonics {:g}/{:g}", order,
                             order - 1, order + 1);
+    else if (fundamental_pair)
+      t.label =
+          fmt::format("supply time harmonics {:g} × {:g}", best_a->time_order, best_b->time_order);
     else if (is_rotor_slot_wave(m, *best_a, tol, k) || is_rotor_slot_wave(m, *best_b, tol, k))
       t.label = "rotor slot ripple";
     else if (slot_order_k(best_a->space_order_el, m.stator_slots, m.pole_pairs) > 0)

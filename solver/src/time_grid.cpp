@@ -55,4 +55,20 @@ TimeGrid make_time_grid(const Case& c, double band_pitch_rad) {
   return g;
 }
 
+std::string slot_passing_warning(const TimeGrid& g, int stator_slots, int rotor_bars) {
+  const double travel_rad = std::abs(g.mechanical_speed_rad_s) * g.dt_s;  // per step
+  const int slots = std::max(stator_slots, rotor_bars);
+  if (travel_rad == 0.0 || slots == 0) return "";
+  const double steps_per_pitch = 2.0 * std::numbers::pi / slots / travel_rad;
+  if (steps_per_pitch >= 6.0) return "";
+  const double per_period_rad = std::abs(g.mechanical_speed_rad_s) / g.frequency_hz;
+  const int needed =
+      static_cast<int>(std::ceil(6.0 * per_period_rad / (2.0 * std::numbers::pi / slots)));
+  return fmt::format(
+      "the rotor turns {:.2f}° per step, {:.1f} steps per slot pitch ({} slots or bars): "
+      "slot-passing torque ripple and slot-harmonic waves are under-sampled and alias in time; "
+      "steps_per_period = {} or more resolves them",
+      travel_rad * 180.0 / std::numbers::pi, steps_per_pitch, slots, needed);
+}
+
 }  // namespace gapflux

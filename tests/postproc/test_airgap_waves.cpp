@@ -102,16 +102,23 @@ TEST_CASE("space orders and waves are named from the machine's orders", "[postpr
   m.pole_pairs = 2, m.stator_slots = 36, m.rotor_bars = 28, m.integral_slot = true;
   m.rotor_speed_pu = 0.97;
   CHECK(space_order_label(m, 2) == "fundamental");
-  CHECK_THAT(space_order_label(m, 34), Catch::Contains("stator slot harmonic k=1"));  // ν = 17
-  CHECK_THAT(space_order_label(m, 38), Catch::Contains("stator slot harmonic k=1"));  // ν = 19
-  CHECK_THAT(space_order_label(m, 10), Catch::Contains("phase belt"));                // ν = 5
-  CHECK_THAT(space_order_label(m, 6), Catch::Contains("triplen"));                    // ν = 3
+  CHECK_THAT(space_order_label(m, 34),
+             Catch::Contains("stator slot harmonic k=1 (Q/p−1)"));  // ν = 17
+  CHECK_THAT(space_order_label(m, 38),
+             Catch::Contains("stator slot harmonic k=1 (Q/p+1)"));  // ν = 19
+  CHECK_THAT(space_order_label(m, 70),
+             Catch::Contains("stator slot harmonic k=2 (2Q/p−1)"));     // ν = 35
+  CHECK_THAT(space_order_label(m, 10), Catch::Contains("phase belt"));  // ν = 5
+  CHECK_THAT(space_order_label(m, 6), Catch::Contains("triplen"));      // ν = 3
   CHECK_THAT(space_order_label(m, 26),
              Catch::Contains("rotor slot harmonic k=1"));  // ν = 13 = 28/2 − 1
   // The rotor slot wave of order p + R = 30 turns with the rotor: time order 1 + R·(1 − s)/p.
   Wave w;
   w.space_order_mech = 30, w.space_order_el = 15, w.time_order = 1 + 28 * 0.97 / 2, w.direction = 1;
-  CHECK(wave_label(m, w, 0.25) == "rotor slot harmonic k=1");
+  CHECK(wave_label(m, w, 0.25) == "rotor slot harmonic k=1 (R/p+1), turning with the rotor");
+  // Order p − R = −26: ν = 13 = R/p − 1, seen at time order −(1 − R·(1 − s)/p) = 12.58.
+  w.space_order_mech = 26, w.space_order_el = 13, w.time_order = 28 * 0.97 / 2 - 1;
+  CHECK(wave_label(m, w, 0.25) == "rotor slot harmonic k=1 (R/p−1), turning with the rotor");
   w.space_order_mech = 2, w.space_order_el = 1, w.time_order = 5, w.direction = -1;
   CHECK(wave_label(m, w, 0.25) == "supply time harmonic 5, backward");
 }
@@ -126,8 +133,9 @@ TEST_CASE("torque harmonics are attributed to the wave pairs that beat at their 
   waves[2] = {2, 1.0, 5.0, -1, 0.03, 0.0};
   const auto t = attribute_torque_harmonics({{2.0, 1.5}, {6.0, 0.9}, {4.0, 0.1}}, waves, m, 0.25);
   REQUIRE(t.size() == 3);
+  CHECK(t[0].source == "ν=1 h=1 forward × ν=1 h=1 backward");
   CHECK_THAT(t[0].label, Catch::Contains("2f pulsation"));
   CHECK_THAT(t[1].label, Catch::Contains("6f family"));
-  // 4f: the backward fundamental with the backward 5th (h −1 − (−5) = 4), a wave interaction.
-  CHECK(t[2].label == "wave interaction");
+  // 4f: the backward fundamental with the backward 5th (h −1 − (−5) = 4).
+  CHECK(t[2].label == "supply time harmonics 1 × 5");
 }

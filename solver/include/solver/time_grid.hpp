@@ -3,6 +3,8 @@
 // a given speed, or locked; rotor angle θ_r(t) = θ_r0 + ω_m·(t − t0). With band-aligned steps the
 // step count per period is chosen so the rotor advances a whole number of band pitches per step
 // (exact node coincidence in the band).
+#include <string>
+
 #include "cases/case.hpp"
 
 namespace gapflux {
@@ -27,6 +29,12 @@ struct TimeGrid {
   int analysis_periods() const { return retained_steps() / steps_per_period; }
   int analysis_first_step() const { return steps - analysis_periods() * steps_per_period; }
 };
+
+// Empty when the slot passing is resolved, else a warning: with fewer than 6 steps per stator or
+// rotor slot pitch of rotor travel, slot-passing torque ripple and the slot-harmonic waves
+// alias in time (Nyquist is 2; 6 keeps their amplitudes within a few per cent). Also says the
+// step count that would resolve them.
+std::string slot_passing_warning(const TimeGrid& grid, int stator_slots, int rotor_bars);
 
 // `band_pitch_rad`: angle between neighbouring band nodes. Throws InputError
 // (study.band_aligned_steps) when no step count can align the rotor at the case's speed.
