@@ -23,6 +23,12 @@ RunSummary common_summary(const Case& c, const Lamination& lamination, const Mes
   s.series_turns_per_phase = w.series_turns_per_phase;
   s.frequency_hz = c.supply.frequency_hz;
   s.frequency_detected = c.supply.frequency_detected;
+  if (c.supply.form != SupplyForm::waveform) {
+    std::array<Phasor, 3> f;
+    for (int k = 0; k < 3; ++k)
+      f[k] = std::polar(c.supply.phases[k].rms_a, c.supply.phases[k].angle_rad);
+    s.described_fundamental = f;
+  }
   s.supply_form = c.supply.form == SupplyForm::phases     ? "phases"
                   : c.supply.form == SupplyForm::sequence ? "sequence"
                                                           : "waveform";

@@ -154,7 +154,22 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                                : "none: the cage's own currents are not modelled"}};
   j["supply"]["form"] = s.supply_form;
   j["supply"]["frequency_detected"] = s.frequency_detected;
-  if (s.analysis) add_analysis(j, *s.analysis, 40);
+  if (s.analysis) {
+    add_analysis(j, *s.analysis, 40);
+  } else if (s.described_fundamental) {
+    // A static study: the supply as described, not as analysed over time.
+    const auto& f = *s.described_fundamental;
+    const UnbalanceMetrics u = unbalance_metrics(f);
+    const SequenceSet q = fortescue(f);
+    j["supply"]["unbalance"] = {{"vuf_pct", u.vuf_pct},
+                                {"lvur_pct", u.lvur_pct},
+                                {"pvur_pct", u.pvur_pct},
+                                {"quantity", "phase currents as described, fundamental"}};
+    j["supply"]["current_sequence"] = {{"positive_a", std::abs(q.positive)},
+                                       {"negative_a", std::abs(q.negative)},
+                                       {"zero_a", std::abs(q.zero)},
+                                       {"values", "RMS of the fundamental"}};
+  }
   j["cautions"] = {
       "Results come from a 2-D magnetostatic model with imposed currents; the cage's own induced "
       "currents, end effects, skew and temperature rise are not modelled.",

@@ -42,6 +42,9 @@ struct RunSummary {
   double bar_rms_a = 0.0;                                   // imposed rotor currents, 0 if none
   std::optional<RunAnalysis> analysis;  // time stepping: sequences, waves, locus, attribution
   std::string supply_form;              // "phases", "sequence" or "waveform"
+  // The fundamental phasors as described (RMS), for the unbalance of a static study; unset for
+  // a measured table, which only a time-stepping run analyses.
+  std::optional<std::array<Phasor, 3>> described_fundamental;
   bool frequency_detected = false;
   // solver
   int steps = 0, newton_iterations = 0;
