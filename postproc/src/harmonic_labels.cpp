@@ -105,7 +105,13 @@ std::string wave_label(const MachineOrders& m, const Wave& w, double tol) {
 
 std::vector<TorqueHarmonic> attribute_torque_harmonics(
     const std::vector<std::pair<double, double>>& harmonics, const std::vector<Wave>& waves,
-    const MachineOrders& m, double tol) {
+    const MachineOrders& m, const std::vector<double>& supply_orders, double tol) {
+  const auto from_supply = [&](const Wave& w) {
+    if (near(w.time_order, 1.0, tol)) return true;
+    for (double h : supply_orders)
+      if (near(w.time_order, h, tol)) return true;
+    return false;
+  };
   std::vector<TorqueHarmonic> out;
   // Waves at the mid-band: only the larger ones can beat to a visible torque.
   const std::size_t n = std::min<std::size_t>(waves.size(), 60);
@@ -136,19 +142,21 @@ std::vector<TorqueHarmonic> attribute_torque_harmonics(
       return w.space_order_mech == m.pole_pairs && near(w.time_order, 1.0, tol) &&
              w.direction == dir;
     };
-    if (fundamental_pair && ((is_fund(*best_a, 1) && is_fund(*best_b, -1)) ||
-                             (is_fund(*best_a, -1) && is_fund(*best_b, 1))))
+    const bool supply_pair = fundamental_pair && from_supply(*best_a) && from_supply(*best_b);
+    const double stator_slot_order = double(m.stator_slots) / m.pole_pairs;  // Q/p
+    if (supply_pair && ((is_fund(*best_a, 1) && is_fund(*best_b, -1)) ||
+                        (is_fund(*best_a, -1) && is_fund(*best_b, 1))))
       t.label = "2f pulsation: forward × backward fundamental (negative sequence)";
-    else if (fundamental_pair && is_integer(order / 6.0) &&
-             (is_fund(*best_a, 1) || is_fund(*best_b, 1)))
+    else if (supply_pair && is_integer(order / 6.0) && (is_fund(*best_a, 1) || is_fund(*best_b, 1)))
       t.label = fmt::format("{:g}f family: fundamental × supply time harmonics {:g}/{:g}", order,
                             order - 1, order + 1);
-    else if (fundamental_pair)
+    else if (supply_pair)
       t.label =
           fmt::format("supply time harmonics {:g} × {:g}", best_a->time_order, best_b->time_order);
     else if (is_rotor_slot_wave(m, *best_a, tol, k) || is_rotor_slot_wave(m, *best_b, tol, k))
       t.label = "rotor slot ripple";
-    else if (slot_order_k(best_a->space_order_el, m.stator_slots, m.pole_pairs) > 0)
+    else if (slot_order_k(best_a->space_order_el, m.stator_slots, m.pole_pairs) > 0 ||
+             (stator_slot_order > 0 && is_integer(order / stator_slot_order)))
       t.label = "stator slot ripple";
     else
       t.label = "wave interaction";

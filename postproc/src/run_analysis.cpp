@@ -18,7 +18,8 @@ std::array<std::vector<double>, 3> window(const std::array<std::vector<double>, 
   return out;
 }
 
-std::vector<TorqueHarmonic> torque_harmonics(const RunRecord& r, const std::vector<Wave>& waves) {
+std::vector<TorqueHarmonic> torque_harmonics(const RunRecord& r, const std::vector<Wave>& waves,
+                                             const std::vector<HarmonicPhasors>& current) {
   const int count = r.periods * r.steps_per_period;
   const std::vector<double> kept(r.torque_nm.begin() + r.first_step,
                                  r.torque_nm.begin() + r.first_step + count);
@@ -35,7 +36,10 @@ std::vector<TorqueHarmonic> torque_harmonics(const RunRecord& r, const std::vect
   std::sort(found.begin(), found.end(),
             [](const auto& a, const auto& b) { return a.second > b.second; });
   if (found.size() > 12) found.resize(12);
-  return attribute_torque_harmonics(found, waves, r.orders, 0.5 / r.periods);
+  std::vector<double> supply_orders;
+  for (const HarmonicPhasors& h : current)
+    if (std::abs(h.order - 1.0) > 1e-9) supply_orders.push_back(h.order);
+  return attribute_torque_harmonics(found, waves, r.orders, supply_orders, 0.5 / r.periods);
 }
 
 }  // namespace
@@ -99,7 +103,7 @@ RunAnalysis analyse_run(const RunRecord& r) {
   for (const Wave& w : waves) a.waves.push_back({w, wave_label(r.orders, w, tol)});
   a.locus = field_locus(waves, p);
   a.fundamental_path = space_fundamental(win, p);
-  a.torque_harmonics = torque_harmonics(r, waves);
+  a.torque_harmonics = torque_harmonics(r, waves, a.current);
   return a;
 }
 

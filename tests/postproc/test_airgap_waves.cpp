@@ -131,11 +131,20 @@ TEST_CASE("torque harmonics are attributed to the wave pairs that beat at their 
   waves[0] = {2, 1.0, 1.0, 1, 0.8, 0.0};
   waves[1] = {2, 1.0, 1.0, -1, 0.05, 0.0};
   waves[2] = {2, 1.0, 5.0, -1, 0.03, 0.0};
-  const auto t = attribute_torque_harmonics({{2.0, 1.5}, {6.0, 0.9}, {4.0, 0.1}}, waves, m, 0.25);
+  const auto t =
+      attribute_torque_harmonics({{2.0, 1.5}, {6.0, 0.9}, {4.0, 0.1}}, waves, m, {5.0}, 0.25);
   REQUIRE(t.size() == 3);
   CHECK(t[0].source == "ν=1 h=1 forward × ν=1 h=1 backward");
   CHECK_THAT(t[0].label, Catch::Contains("2f pulsation"));
   CHECK_THAT(t[1].label, Catch::Contains("6f family"));
   // 4f: the backward fundamental with the backward 5th (h −1 − (−5) = 4).
   CHECK(t[2].label == "supply time harmonics 1 × 5");
+  // Without a 5th in the currents, the same waves are not put down to the supply.
+  const auto u = attribute_torque_harmonics({{6.0, 0.9}}, waves, m, {}, 0.25);
+  CHECK(u[0].label == "wave interaction");
+  // A space-fundamental wave at time order −17 that the currents do not carry (slotting makes
+  // it) beats with the fundamental at 18f = Q/p·f: stator slot ripple, not a supply harmonic.
+  waves.push_back({2, 1.0, 17.0, -1, 0.01, 0.0});
+  const auto v = attribute_torque_harmonics({{18.0, 0.5}}, waves, m, {}, 0.25);
+  CHECK(v[0].label == "stator slot ripple");
 }

@@ -32,8 +32,10 @@ struct TorqueHarmonic {
 // Each harmonic (order, amplitude) is matched with the pairs of airgap waves of equal space
 // order whose signed time orders differ by the torque order; the strongest product names it.
 // A heuristic: it names the likely source, it proves nothing.
+// `supply_orders`: time orders the phase currents carry besides the fundamental; a pair of
+// space-fundamental waves is put down to the supply only when its other order is among them.
 std::vector<TorqueHarmonic> attribute_torque_harmonics(
     const std::vector<std::pair<double, double>>& harmonics, const std::vector<Wave>& waves,
-    const MachineOrders& m, double tolerance);
+    const MachineOrders& m, const std::vector<double>& supply_orders, double tolerance);
 
 }  // namespace gapflux
