@@ -27,7 +27,6 @@ struct TimeGrid {
   int retained_steps() const { return steps - discarded_steps; }
   // Spectra use the last whole electrical periods of the retained steps.
   int analysis_periods() const { return retained_steps() / steps_per_period; }
-  int analysis_first_step() const { return steps - analysis_periods() * steps_per_period; }
 };
 
 // Empty when the slot passing is resolved, else a warning: with fewer than 6 steps per stator or
