@@ -17,7 +17,7 @@ WaveformTable read_waveform_csv(const std::string& path, const std::string& key_
 
 // Fundamental frequency of a measured set: a hysteresis zero-crossing count on the largest
 // phase, refined by the Hann²-weighted least-squares sinusoid that explains most of the record.
-// Throws a message when the table holds fewer than two periods.
+// Throws a message when no whole period lies between two rising crossings.
 double detect_fundamental_hz(const WaveformTable& table);
 
 }  // namespace gapflux
