@@ -37,7 +37,7 @@ void print_analysis_table(std::FILE* out, const RunAnalysis& a, double torque_me
     const Wave& w = lw.wave;
     const char* dir = w.direction > 0 ? "forward" : w.direction < 0 ? "backward" : "standing";
     fmt::print(out, "  {:>6.3g} {:>7} {:>8.4g} {:>10} {:>10.4f}  {}\n", w.space_order_el,
-               w.space_order_mech, w.time_order, dir, w.amplitude_tesla, lw.label);
+               w.space_order_mech, w.time_order, dir, w.amplitude, lw.label);
   }
   const FieldLocus& l = a.locus;
   fmt::print(out,
@@ -45,6 +45,18 @@ void print_analysis_table(std::FILE* out, const RunAnalysis& a, double torque_me
              "axis ratio {:.4f}, major axis at {:.1f}° el\n",
              l.forward_tesla, l.backward_tesla, l.major_tesla, l.minor_tesla, l.axis_ratio,
              l.major_axis_deg_el);
+  fmt::print(out, "  radial force waves (time-varying, largest first; * = low mode 0–4):\n");
+  shown = 0;
+  for (const ForceWave& w : a.force_waves) {
+    if (w.time_order == 0.0) continue;
+    if (++shown > 6) break;
+    fmt::print(out, "  {} mode {:>3} at {:>8.1f} Hz ({:>5.3g}f) {:>9}  {:>10.1f} N/m²\n",
+               w.low_mode ? "*" : " ", w.mode, w.frequency_hz, w.time_order,
+               w.direction > 0   ? "forward"
+               : w.direction < 0 ? "backward"
+                                 : "pulsating",
+               w.amplitude_n_per_m2);
+  }
   fmt::print(out, "  torque: mean {:.4f} N·m, ripple {:.2f} %\n", torque_mean_nm,
              torque_ripple_pct);
   shown = 0;

@@ -242,11 +242,22 @@ RunRecord TransientStudy::read_record(int done) const {
     const std::vector<double> row(b.begin() + n * per_sector, b.begin() + (n + 1) * per_sector);
     const std::vector<double> full =
         full_circle(row, mesh_.symmetry.sectors, mesh_.symmetry.antiperiodic);
-    r.airgap.b_r_tesla.insert(r.airgap.b_r_tesla.end(), full.begin(), full.end());
+    r.airgap.values.insert(r.airgap.values.end(), full.begin(), full.end());
   }
   r.airgap.samples = static_cast<int>(per_sector) * mesh_.symmetry.sectors;
   r.airgap.steps = done;
   r.airgap.theta0_rad = theta.empty() ? 0.0 : theta[0];
+  // σ_r is quadratic in B: the sectors repeat it without sign change.
+  const std::vector<double> sigma = h5_->read("steps/radial_force_density");
+  for (int n = 0; n < done; ++n) {
+    const std::vector<double> row(sigma.begin() + n * per_sector,
+                                  sigma.begin() + (n + 1) * per_sector);
+    const std::vector<double> full = full_circle(row, mesh_.symmetry.sectors, false);
+    r.force.values.insert(r.force.values.end(), full.begin(), full.end());
+  }
+  r.force.samples = r.airgap.samples;
+  r.force.steps = done;
+  r.force.theta0_rad = r.airgap.theta0_rad;
   r.orders.pole_pairs = case_.machine.pole_pairs();
   r.orders.stator_slots = case_.stator.slots;
   r.orders.rotor_bars = case_.rotor.kind == RotorKind::cage ? case_.rotor.bars : 0;

@@ -28,7 +28,7 @@ std::vector<Wave> space_time_waves(const AirgapRecord& r, int periods, double t0
   std::vector<Wave> waves;
   const int nt = r.steps, ns = r.samples;
   if (periods < 1 || nt < 2 || ns < 4) return waves;
-  const std::vector<std::complex<double>> out = real_dft_2d(r.b_r_tesla, nt, ns);
+  const std::vector<std::complex<double>> out = real_dft_2d(r.values, nt, ns);
   const int cols = ns / 2 + 1;
   const double omega = 2.0 * std::numbers::pi * frequency_hz;
   for (int m = 0; m < (ns + 1) / 2; ++m) {
@@ -47,18 +47,18 @@ std::vector<Wave> space_time_waves(const AirgapRecord& r, int periods, double t0
       w.space_order_el = double(m) / pole_pairs;
       w.time_order = std::abs(h);
       w.direction = (m == 0 || kh == 0) ? 0 : (kh > 0 ? 1 : -1);
-      w.amplitude_tesla = (m == 0 && kh == 0) ? std::abs(c) : 2.0 * std::abs(c);
+      w.amplitude = (m == 0 && kh == 0) ? std::abs(c) : 2.0 * std::abs(c);
       w.phase_rad = -std::arg(c);
       waves.push_back(w);
     }
   }
   double largest = 0;
-  for (const Wave& w : waves) largest = std::max(largest, w.amplitude_tesla);
+  for (const Wave& w : waves) largest = std::max(largest, w.amplitude);
   std::erase_if(waves, [&](const Wave& w) {
-    return !(w.amplitude_tesla > floor_fraction * largest && w.amplitude_tesla > 0);
+    return !(w.amplitude > floor_fraction * largest && w.amplitude > 0);
   });
   std::sort(waves.begin(), waves.end(),
-            [](const Wave& a, const Wave& b) { return a.amplitude_tesla > b.amplitude_tesla; });
+            [](const Wave& a, const Wave& b) { return a.amplitude > b.amplitude; });
   return waves;
 }
 
@@ -76,7 +76,7 @@ std::vector<std::complex<double>> space_fundamental(const AirgapRecord& r, int p
   for (int n = 0; n < r.steps; ++n) {
     std::complex<double> sum = 0;
     for (int j = 0; j < r.samples; ++j)
-      sum += r.b_r_tesla[static_cast<std::size_t>(n) * r.samples + j] *
+      sum += r.values[static_cast<std::size_t>(n) * r.samples + j] *
              std::polar(1.0, -pole_pairs * (r.theta0_rad + j * pitch));
     out[n] = 2.0 * sum / double(r.samples);
   }
@@ -87,8 +87,8 @@ FieldLocus field_locus(const std::vector<Wave>& waves, int pole_pairs) {
   FieldLocus l;
   const Wave* f = find_wave(waves, pole_pairs, 1.0);
   const Wave* b = find_wave(waves, pole_pairs, -1.0);
-  l.forward_tesla = f ? f->amplitude_tesla : 0.0;
-  l.backward_tesla = b ? b->amplitude_tesla : 0.0;
+  l.forward_tesla = f ? f->amplitude : 0.0;
+  l.backward_tesla = b ? b->amplitude : 0.0;
   l.major_tesla = l.forward_tesla + l.backward_tesla;
   l.minor_tesla = std::abs(l.forward_tesla - l.backward_tesla);
   l.axis_ratio = l.major_tesla > 0 ? l.minor_tesla / l.major_tesla : 1.0;

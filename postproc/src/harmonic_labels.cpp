@@ -126,7 +126,7 @@ std::vector<TorqueHarmonic> attribute_torque_harmonics(
         const Wave &a = waves[i], &b = waves[j];
         if (a.space_order_mech != b.space_order_mech || a.space_order_mech == 0) continue;
         if (!near(a.signed_time_order() - b.signed_time_order(), order, tol)) continue;
-        const double score = a.amplitude_tesla * b.amplitude_tesla;
+        const double score = a.amplitude * b.amplitude;
         if (score > best) best = score, best_a = &a, best_b = &b;
       }
     if (!best_a) {

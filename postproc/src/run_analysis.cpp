@@ -42,6 +42,33 @@ std::vector<TorqueHarmonic> torque_harmonics(const RunRecord& r, const std::vect
   return attribute_torque_harmonics(found, waves, r.orders, supply_orders, 0.5 / r.periods);
 }
 
+// The force density's space–time waves over the window (σ_r is quadratic in B, so a sector
+// repeats without sign change and the transform sees the full circle).
+std::vector<ForceWave> force_waves(const RunRecord& r) {
+  std::vector<ForceWave> out;
+  const int count = r.periods * r.steps_per_period, ns = r.force.samples;
+  if (ns == 0 || r.force.steps < r.first_step + count) return out;
+  AirgapRecord win;
+  win.theta0_rad = r.force.theta0_rad;
+  win.samples = ns;
+  win.steps = count;
+  win.values.assign(r.force.values.begin() + static_cast<long>(r.first_step) * ns,
+                    r.force.values.begin() + static_cast<long>(r.first_step + count) * ns);
+  const double t0 = r.time_s[r.first_step];
+  for (const Wave& w :
+       space_time_waves(win, r.periods, t0, r.frequency_hz, r.orders.pole_pairs, 1e-4)) {
+    ForceWave f;
+    f.mode = w.space_order_mech;
+    f.time_order = w.time_order;
+    f.frequency_hz = w.time_order * r.frequency_hz;
+    f.direction = w.direction;
+    f.amplitude_n_per_m2 = w.amplitude;
+    f.low_mode = f.mode <= 4;
+    out.push_back(f);
+  }
+  return out;
+}
+
 }  // namespace
 
 RunAnalysis analyse_run(const RunRecord& r) {
@@ -52,7 +79,7 @@ RunAnalysis analyse_run(const RunRecord& r) {
   const int ns = r.airgap.samples;
   a.space_orders = ns / 2;
   for (int n = 0; n < r.airgap.steps; ++n) {
-    const auto row = space_amplitudes(&r.airgap.b_r_tesla[static_cast<std::size_t>(n) * ns], ns);
+    const auto row = space_amplitudes(&r.airgap.values[static_cast<std::size_t>(n) * ns], ns);
     a.space_amplitude_tesla.insert(a.space_amplitude_tesla.end(), row.begin(), row.end());
   }
   a.periods = r.periods;
@@ -95,8 +122,8 @@ RunAnalysis analyse_run(const RunRecord& r) {
   win.theta0_rad = r.airgap.theta0_rad;
   win.samples = ns;
   win.steps = count;
-  win.b_r_tesla.assign(r.airgap.b_r_tesla.begin() + static_cast<long>(r.first_step) * ns,
-                       r.airgap.b_r_tesla.begin() + static_cast<long>(r.first_step + count) * ns);
+  win.values.assign(r.airgap.values.begin() + static_cast<long>(r.first_step) * ns,
+                    r.airgap.values.begin() + static_cast<long>(r.first_step + count) * ns);
   const std::vector<Wave> waves =
       space_time_waves(win, r.periods, a.window_start_s, r.frequency_hz, p, 1e-4);
   const double tol = 0.5 / r.periods;
@@ -104,6 +131,7 @@ RunAnalysis analyse_run(const RunRecord& r) {
   a.locus = field_locus(waves, p);
   a.fundamental_path = space_fundamental(win, p);
   a.torque_harmonics = torque_harmonics(r, waves, a.current);
+  a.force_waves = force_waves(r);
   return a;
 }
 
@@ -163,7 +191,7 @@ void write_analysis(ResultsFile& f, const RunAnalysis& a) {
     space.push_back(lw.wave.space_order_mech);
     direction.push_back(lw.wave.direction);
     time_order.push_back(lw.wave.time_order);
-    wave_amplitude.push_back(lw.wave.amplitude_tesla);
+    wave_amplitude.push_back(lw.wave.amplitude);
     phase.push_back(lw.wave.phase_rad);
     wave_labels.push_back(lw.label);
   }
@@ -194,6 +222,23 @@ void write_analysis(ResultsFile& f, const RunAnalysis& a) {
   f.write("analysis/torque_harmonics/amplitude", t_amp, "N*m");
   f.write_strings("analysis/torque_harmonics/label", t_label);
   f.write_strings("analysis/torque_harmonics/source", t_source);
+
+  std::vector<int> mode, f_direction, low;
+  std::vector<double> f_order, f_hz, f_amp;
+  for (const ForceWave& w : a.force_waves) {
+    mode.push_back(w.mode);
+    f_direction.push_back(w.direction);
+    low.push_back(w.low_mode ? 1 : 0);
+    f_order.push_back(w.time_order);
+    f_hz.push_back(w.frequency_hz);
+    f_amp.push_back(w.amplitude_n_per_m2);
+  }
+  f.write("analysis/force_waves/mode", mode, "1");
+  f.write("analysis/force_waves/time_order", f_order, "1");
+  f.write("analysis/force_waves/frequency", f_hz, "Hz");
+  f.write("analysis/force_waves/direction", f_direction, "1");
+  f.write("analysis/force_waves/amplitude", f_amp, "N/m^2");
+  f.write("analysis/force_waves/low_mode", low, "1");
 }
 
 }  // namespace gapflux

@@ -68,11 +68,29 @@ void add_analysis(json& j, const RunAnalysis& a, std::size_t max_waves) {
                                    : w.direction < 0         ? "backward"
                                    : w.space_order_mech == 0 ? "pulsating"
                                                              : "static"},
-                     {"amplitude_tesla", w.amplitude_tesla},
+                     {"amplitude_tesla", w.amplitude},
                      {"phase_deg", w.phase_rad * rad_to_deg},
                      {"label", a.waves[i].label}});
   }
   j["airgap"]["waves"] = waves;
+  json forces = json::array();
+  for (const ForceWave& w : a.force_waves) {
+    if (w.time_order == 0.0) continue;  // static pressure does not vibrate the stator
+    if (forces.size() >= 20) break;
+    forces.push_back({{"mode", w.mode},
+                      {"time_order", w.time_order},
+                      {"frequency_hz", w.frequency_hz},
+                      {"direction", w.direction > 0   ? "forward"
+                                    : w.direction < 0 ? "backward"
+                                                      : "pulsating"},
+                      {"amplitude_n_per_m2", w.amplitude_n_per_m2},
+                      {"low_mode", w.low_mode}});
+  }
+  j["forces"] = {{"waves", forces},
+                 {"quantity", "radial force density (B_r² − B_θ²)/(2μ0) at mid-gap"},
+                 {"note",
+                  "time-varying waves only, largest first; low modes (0–4) are the ones "
+                  "a stator yoke responds to most"}};
   j["airgap"]["locus"] = {
       {"major_tesla", a.locus.major_tesla},       {"minor_tesla", a.locus.minor_tesla},
       {"axis_ratio", a.locus.axis_ratio},         {"forward_tesla", a.locus.forward_tesla},

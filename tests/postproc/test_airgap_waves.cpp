@@ -33,7 +33,7 @@ AirgapRecord build(const std::vector<KnownWave>& waves, int samples, int steps, 
       double b = 0;
       for (const KnownWave& w : waves)
         b += w.b * std::cos(w.m * theta - w.h * 2 * pi * f * t - w.phi);
-      r.b_r_tesla.push_back(b);
+      r.values.push_back(b);
     }
   }
   return r;
@@ -60,7 +60,7 @@ TEST_CASE("space-time waves are recovered with their direction", "[postproc][wav
   for (const KnownWave& w : waves) {
     const Wave* x = find_wave(found, w.m, w.h);
     REQUIRE(x != nullptr);
-    CHECK(x->amplitude_tesla == Approx(w.b).margin(1e-10));
+    CHECK(x->amplitude == Approx(w.b).margin(1e-10));
     CHECK(std::abs(std::remainder(x->phase_rad - w.phi, 2 * pi)) < 1e-9);
     CHECK(x->direction == (w.h > 0 ? 1 : -1));
     CHECK(x->space_order_el == Approx(w.m / 2.0));

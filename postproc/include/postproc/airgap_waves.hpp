@@ -8,12 +8,13 @@
 
 namespace gapflux {
 
-// B_r on the full circle at θ_j = theta0 + j·2π/samples, one row per step.
+// A quantity on the full airgap circle at θ_j = theta0 + j·2π/samples, one row per step: B_r
+// (T) for the field's waves, σ_r (N/m²) for the force waves.
 struct AirgapRecord {
   double theta0_rad = 0.0;
   int samples = 0;
   int steps = 0;
-  std::vector<double> b_r_tesla;  // steps × samples, row-major
+  std::vector<double> values;  // steps × samples, row-major, in the quantity's unit
 };
 
 // Sector samples → the full circle: B(θ + k·θ_s) = (±1)^k·B(θ), − for antiperiodic models.
@@ -27,8 +28,8 @@ struct Wave {
   double space_order_el = 0.0;  // m / p
   double time_order = 0.0;      // |h|, multiples of the supply frequency
   int direction = 0;            // +1 forward, −1 backward, 0 static (h = 0) or pulsating (m = 0)
-  double amplitude_tesla = 0.0;
-  double phase_rad = 0.0;  // φ in B·cos(m·θ − h·ω·t − φ), h signed, t from 0
+  double amplitude = 0.0;       // in the record's unit (T for B_r, N/m² for σ_r)
+  double phase_rad = 0.0;       // φ in B·cos(m·θ − h·ω·t − φ), h signed, t from 0
   double signed_time_order() const { return direction < 0 ? -time_order : time_order; }
 };
 

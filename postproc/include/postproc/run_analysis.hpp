@@ -23,7 +23,8 @@ struct RunRecord {
   int first_step = 0;          // first step of the window
   std::vector<double> time_s;  // every finished step
   std::array<std::vector<double>, 3> current_a, flux_linkage_wb;  // every finished step
-  AirgapRecord airgap;  // full circle, every finished step
+  AirgapRecord airgap;  // B_r, full circle, every finished step
+  AirgapRecord force;   // σ_r = (B_r² − B_θ²)/(2μ0), full circle, every finished step
   std::vector<double> torque_nm;
   MachineOrders orders;
 };
@@ -40,6 +41,16 @@ struct LabelledWave {
   std::string label;
 };
 
+// A radial force (pressure) wave σ·cos(mode·θ − h·ω·t − φ) on the stator bore.
+struct ForceWave {
+  int mode = 0;  // circumferential order, mechanical
+  double time_order = 0.0;
+  double frequency_hz = 0.0;
+  int direction = 0;  // +1 forward, −1 backward, 0 static or pulsating
+  double amplitude_n_per_m2 = 0.0;
+  bool low_mode = false;  // modes 0–4: the stator yoke's stiffness is lowest for these
+};
+
 struct RunAnalysis {
   int periods = 0;
   double window_start_s = 0.0;
@@ -52,6 +63,7 @@ struct RunAnalysis {
   FieldLocus locus;
   std::vector<std::complex<double>> fundamental_path;  // space-fundamental phasor per window step
   std::vector<TorqueHarmonic> torque_harmonics;        // largest first
+  std::vector<ForceWave> force_waves;                  // above 1e-4 of the largest, largest first
   std::string note;                                    // why parts are missing, if they are
 };
 
