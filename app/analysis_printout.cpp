@@ -2,6 +2,7 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
 #include <numbers>
 
@@ -64,6 +65,23 @@ void print_analysis_table(std::FILE* out, const RunAnalysis& a, double torque_me
     if (++shown > 6) break;
     fmt::print(out, "  {:>8.4g}f {:>10.4f} N·m  {}{}\n", t.order, t.amplitude_nm, t.label,
                t.source.empty() ? "" : " (" + t.source + ")");
+  }
+}
+
+void print_saturation_table(std::FILE* out, const SaturationMap& s) {
+  fmt::print(out, "  saturation over the last period: peak |B| {:.3f} T; highest zones:\n",
+             s.peak_tesla_overall);
+  std::vector<const SaturationZone*> zones;
+  for (const SaturationZone& z : s.zones) zones.push_back(&z);
+  std::sort(zones.begin(), zones.end(),
+            [](const auto* a, const auto* b) { return a->peak_tesla > b->peak_tesla; });
+  for (std::size_t i = 0; i < zones.size() && i < 6; ++i) {
+    const SaturationZone& z = *zones[i];
+    fmt::print(out, "    {:<30} peak {:.3f} T, {:5.1f} % of its area above {:.2f} T{}\n", z.name,
+               z.peak_tesla, 100.0 * z.area_fraction_over, z.threshold_tesla,
+               z.tooth >= 0 ? fmt::format(" (at {:.1f}°, nearest phase {} axis)", z.angle_deg,
+                                          z.nearest_phase)
+                            : std::string());
   }
 }
 

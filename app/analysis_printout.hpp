@@ -5,10 +5,14 @@
 #include <cstdio>
 
 #include "postproc/run_analysis.hpp"
+#include "postproc/saturation.hpp"
 
 namespace gapflux {
 
 void print_analysis_table(std::FILE* out, const RunAnalysis& a, double torque_mean_nm,
                           double torque_ripple_pct);
+
+// The zones with the highest peak |B| over the last period.
+void print_saturation_table(std::FILE* out, const SaturationMap& s);
 
 }  // namespace gapflux

@@ -1,5 +1,7 @@
 #include "study_summary.hpp"
 
+#include <numbers>
+
 namespace gapflux {
 
 RunSummary common_summary(const Case& c, const Lamination& lamination, const Mesh& mesh,
@@ -21,6 +23,8 @@ RunSummary common_summary(const Case& c, const Lamination& lamination, const Mes
   s.coil_pitch_slots = w.coil_pitch_slots;
   s.factors = w.factors;
   s.series_turns_per_phase = w.series_turns_per_phase;
+  for (int k = 0; k < 3; ++k)
+    s.phase_axis_deg_el[k] = w.phase_axis_el_rad[k] * 180.0 / std::numbers::pi;
   s.frequency_hz = c.supply.frequency_hz;
   s.frequency_detected = c.supply.frequency_detected;
   if (c.supply.form != SupplyForm::waveform) {

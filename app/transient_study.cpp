@@ -101,7 +101,7 @@ int TransientStudy::open_results() {
     for (const char* d :
          {"steps/time", "steps/rotor_angle", "steps/torque", "steps/phase_current",
           "steps/flux_linkage", "steps/emf", "steps/newton_iterations", "steps/airgap_B_r",
-          "steps/airgap_B_theta", "steps/radial_force_density", "steps/A"})
+          "steps/airgap_B_theta", "steps/radial_force_density", "steps/A", "steps/B_abs"})
       h5_->truncate_rows(d, static_cast<std::size_t>(done));
     steps_done_ = static_cast<int>(done);
     if (done > 0) {
@@ -183,13 +183,18 @@ void TransientStudy::step(int n) {
   h5_->append_row("steps/airgap_B_theta", s.b_theta_tesla, "T");
   h5_->append_row("steps/radial_force_density", sigma, "N/m^2");
   h5_->append_row("steps/A", nodal_potential(mesh_, system.dofs(), system.x()), "Wb/m");
+  const ElementFields fields = evaluate_element_fields(system.assembler(), system.x(), model);
+  h5_->append_row("steps/B_abs",
+                  std::vector<double>(fields.b_abs_tesla.begin(),
+                                      fields.b_abs_tesla.begin() + mesh_.n_triangles()),
+                  "T");
   if (n == 0 || !h5_->exists("airgap/theta")) {
     h5_->write("airgap/theta", s.theta_rad, "rad");
     h5_->attribute("airgap/theta", "radius_m", s.radius_m);
   }
   h5_->write("restart/x",
              std::vector<double>(system.x().data(), system.x().data() + system.x().size()), "1");
-  if (n % case_.output.fields_every == 0) write_fields(n, system, model);
+  if (n % case_.output.fields_every == 0) write_fields(n, system, fields);
   h5_->attribute("/", "steps_done", static_cast<long>(n + 1));
   h5_->flush();
 
@@ -201,8 +206,7 @@ void TransientStudy::step(int n) {
 }
 
 void TransientStudy::write_fields(int n, const MagnetostaticSystem& system,
-                                  const RegionModel& model) {
-  const ElementFields fields = evaluate_element_fields(system.assembler(), system.x(), model);
+                                  const ElementFields& fields) {
   FieldSnapshot snap;
   snap.elements = &system.assembler().elements();
   for (std::size_t e = 0; e < snap.elements->size(); ++e) {
@@ -216,6 +220,55 @@ void TransientStudy::write_fields(int n, const MagnetostaticSystem& system,
   write_fields_vtu((fs::path(out_dir_) / name).string(), mesh_.order, snap);
   field_files_.emplace_back(grid_.time(n), name);
   write_pvd((fs::path(out_dir_) / "fields.pvd").string(), field_files_);
+}
+
+SaturationMap TransientStudy::saturation_over_last_period(int done) {
+  const std::size_t nt = mesh_.n_triangles();
+  const int spp = grid_.steps_per_period;
+  const std::vector<double> all = h5_->read("steps/B_abs");
+  const std::vector<double> last(all.begin() + static_cast<long>(done - spp) * nt,
+                                 all.begin() + static_cast<long>(done) * nt);
+  // The threshold: the case's, else each iron's knee (none for a linear material).
+  const auto knee = [&](const Material& m) {
+    if (case_.output.saturation_threshold_tesla > 0) return case_.output.saturation_threshold_tesla;
+    return m.curve ? m.curve->knee_tesla() : 0.0;
+  };
+  std::vector<double> threshold(nt, 0.0);
+  for (std::size_t t = 0; t < nt; ++t) {
+    const RegionKind kind = mesh_.regions[mesh_.triangle_region[t]].tag.kind;
+    if (kind == RegionKind::stator_iron) threshold[t] = knee(materials_.stator_iron);
+    if (kind == RegionKind::rotor_iron) threshold[t] = knee(materials_.rotor_iron);
+  }
+  SaturationMap map = saturation_map(mesh_, lamination_, last, spp, grid_.dt_s, threshold);
+  std::vector<double> zone(map.zone.begin(), map.zone.end());
+  h5_->write("saturation/peak_B", map.peak_tesla, "T");
+  h5_->write("saturation/time_over", map.time_over_s, "s");
+  h5_->write("saturation/threshold", threshold, "T");
+  h5_->write("saturation/zone", map.zone, "1");
+  std::vector<std::string> names, phases;
+  std::vector<double> peak, fraction, angle;
+  std::vector<int> tooth;
+  for (const SaturationZone& z : map.zones) {
+    names.push_back(z.name);
+    phases.push_back(z.nearest_phase);
+    peak.push_back(z.peak_tesla);
+    fraction.push_back(z.area_fraction_over);
+    angle.push_back(z.angle_deg);
+    tooth.push_back(z.tooth);
+  }
+  h5_->write_strings("saturation/zones/name", names);
+  h5_->write_strings("saturation/zones/nearest_phase", phases);
+  h5_->write("saturation/zones/peak_B", peak, "T");
+  h5_->write("saturation/zones/area_fraction_over", fraction, "1");
+  h5_->write("saturation/zones/angle", angle, "deg");
+  h5_->write("saturation/zones/tooth", tooth, "1");
+  h5_->attribute("saturation", "period_start_s", grid_.time(done - spp));
+  write_mesh_vtu((fs::path(out_dir_) / "saturation.vtu").string(), mesh_, nullptr,
+                 {{"peak_B", map.peak_tesla},
+                  {"time_over_threshold_s", map.time_over_s},
+                  {"threshold_T", threshold},
+                  {"zone", zone}});
+  return map;
 }
 
 RunRecord TransientStudy::read_record(int done) const {
@@ -301,6 +354,7 @@ void TransientStudy::finish(const std::string& failure) {
   // steps that finished.
   s.analysis = analyse_run(read_record(done));
   write_analysis(*h5_, *s.analysis);
+  if (s.analysis->periods >= 1) s.saturation = saturation_over_last_period(done);
   s.torque_harmonics.clear();
   for (const TorqueHarmonic& t : s.analysis->torque_harmonics)
     s.torque_harmonics.emplace_back(t.order, t.amplitude_nm);
@@ -322,6 +376,7 @@ void TransientStudy::finish(const std::string& failure) {
   if (s.bar_rms_a > 0)
     fmt::print("rotor bar currents: {:.1f} A RMS imposed (not induced)\n", s.bar_rms_a);
   print_analysis_table(stdout, *s.analysis, s.torque_mean_nm, s.torque_ripple_pct);
+  if (s.saturation) print_saturation_table(stdout, *s.saturation);
   fmt::print("wrote {}/results.h5, fields.pvd, summary.json\n", out_dir_);
 }
 

@@ -12,8 +12,10 @@
 #include "geometry/lamination.hpp"
 #include "geometry/mesher.hpp"
 #include "materials/library.hpp"
+#include "postproc/field_evaluation.hpp"
 #include "postproc/results_file.hpp"
 #include "postproc/run_analysis.hpp"
+#include "postproc/saturation.hpp"
 #include "solver/magnetostatic_system.hpp"
 #include "solver/time_grid.hpp"
 #include "solver/winding_sources.hpp"
@@ -29,7 +31,10 @@ class TransientStudy {
   void set_up();
   int open_results();  // returns the first step to compute
   void step(int n);
-  void write_fields(int n, const MagnetostaticSystem& system, const RegionModel& model);
+  void write_fields(int n, const MagnetostaticSystem& system, const ElementFields& fields);
+  // Peak |B| and time over the threshold per triangle over the last period, written to
+  // results.h5 (saturation/) and saturation.vtu.
+  SaturationMap saturation_over_last_period(int done);
   RunRecord read_record(int done) const;  // the finished steps, for the analysis
   void finish(const std::string& failure);
 

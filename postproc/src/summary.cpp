@@ -122,6 +122,7 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                   {"layers", s.layers},
                   {"coil_pitch_slots", s.coil_pitch_slots},
                   {"series_turns_per_phase", s.series_turns_per_phase},
+                  {"phase_axis_deg_el", s.phase_axis_deg_el},
                   {"factors", factors}};
   j["supply"] = {{"frequency_hz", s.frequency_hz},
                  {"feed", "current"},
@@ -187,6 +188,28 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                                        {"negative_a", std::abs(q.negative)},
                                        {"zero_a", std::abs(q.zero)},
                                        {"values", "RMS of the fundamental"}};
+  }
+  if (s.saturation) {
+    json zones = json::array();
+    double threshold = 0.0;
+    for (const SaturationZone& z : s.saturation->zones) {
+      json row = {{"name", z.name},
+                  {"peak_tesla", z.peak_tesla},
+                  {"area_fraction_over", z.area_fraction_over},
+                  {"threshold_tesla", z.threshold_tesla}};
+      if (z.tooth >= 0) {
+        row["tooth"] = z.tooth;
+        row["angle_deg"] = z.angle_deg;
+        row["nearest_phase_axis"] = z.nearest_phase;
+        threshold = z.threshold_tesla;
+      }
+      zones.push_back(row);
+    }
+    j["saturation"] = {{"threshold_tesla", threshold},
+                       {"peak_tesla", s.saturation->peak_tesla_overall},
+                       {"regions", zones},
+                       {"over", "the last electrical period"},
+                       {"threshold", "the case's, else each iron's knee (0: linear, no knee)"}};
   }
   j["cautions"] = {
       "Results come from a 2-D magnetostatic model with imposed currents; the cage's own induced "

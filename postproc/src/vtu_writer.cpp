@@ -17,7 +17,8 @@
 
 namespace gapflux {
 
-void write_mesh_vtu(const std::string& path, const Mesh& mesh, const BandMesh* band) {
+void write_mesh_vtu(const std::string& path, const Mesh& mesh, const BandMesh* band,
+                    const std::vector<std::pair<std::string, std::vector<double>>>& cell_fields) {
   const int per = mesh.nodes_per_triangle();
   const int cell_type = mesh.order == 1 ? VTK_TRIANGLE : VTK_QUADRATIC_TRIANGLE;
   const int band_region = mesh.region_index("moving_band");
@@ -64,6 +65,14 @@ void write_mesh_vtu(const std::string& path, const Mesh& mesh, const BandMesh* b
   grid->GetCellData()->AddArray(region_id);
   grid->GetCellData()->AddArray(tooth);
   grid->GetCellData()->AddArray(side);
+  for (const auto& [name, values] : cell_fields) {
+    vtkNew<vtkDoubleArray> arr;
+    arr->SetName(name.c_str());
+    for (std::size_t t = 0; t < mesh.n_triangles(); ++t) arr->InsertNextValue(values.at(t));
+    if (band)
+      for (std::size_t e = 0; e < band->elements.size(); ++e) arr->InsertNextValue(0.0);
+    grid->GetCellData()->AddArray(arr);
+  }
 
   vtkNew<vtkIntArray> ids;
   // Names as NUL-terminated UTF-8 bytes in region_ids order: plain numeric arrays that every

@@ -187,7 +187,8 @@ struct SolverSpec {
 
 struct OutputSpec {
   int fields_every = 1;
-  int airgap_samples = 0;  // 0 until resolved: from the band nodes
+  int airgap_samples = 0;                 // 0 until resolved: from the band nodes
+  double saturation_threshold_tesla = 0;  // 0: each iron's knee
 };
 
 struct Case {

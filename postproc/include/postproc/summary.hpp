@@ -9,6 +9,7 @@
 
 #include "geometry/winding_layout.hpp"
 #include "postproc/run_analysis.hpp"
+#include "postproc/saturation.hpp"
 
 namespace gapflux {
 
@@ -24,6 +25,7 @@ struct RunSummary {
   int slots = 0, poles = 0, layers = 1, coil_pitch_slots = 0;
   std::vector<WindingFactor> factors;
   double series_turns_per_phase = 0.0;
+  std::array<double, 3> phase_axis_deg_el{0, 0, 0};  // magnetic axes of a, b, c
   // supply at the instant solved
   double frequency_hz = 0.0, time_s = 0.0, rotor_angle_deg = 0.0;
   std::array<double, 3> phase_current_a{0, 0, 0};
@@ -40,8 +42,10 @@ struct RunSummary {
   double torque_mean_nm = 0, torque_min_nm = 0, torque_max_nm = 0, torque_ripple_pct = 0;
   std::vector<std::pair<double, double>> torque_harmonics;  // (order in multiples of f, amplitude)
   double bar_rms_a = 0.0;                                   // imposed rotor currents, 0 if none
-  std::optional<RunAnalysis> analysis;  // time stepping: sequences, waves, locus, attribution
-  std::string supply_form;              // "phases", "sequence" or "waveform"
+  std::optional<RunAnalysis> analysis;
+  std::optional<SaturationMap> saturation;  // time stepping: over the last electrical period  //
+                                            // time stepping: sequences, waves, locus, attribution
+  std::string supply_form;                  // "phases", "sequence" or "waveform"
   // The fundamental phasors as described (RMS), for the unbalance of a static study; unset for
   // a measured table, which only a time-stepping run analyses.
   std::optional<std::array<Phasor, 3>> described_fundamental;

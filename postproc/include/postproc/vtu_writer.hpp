@@ -1,6 +1,8 @@
 #pragma once
 // VTK XML unstructured-grid output (the only file that sees VTK is vtu_writer.cpp).
 #include <string>
+#include <utility>
+#include <vector>
 
 #include "geometry/mesh.hpp"
 #include "geometry/moving_band.hpp"
@@ -14,7 +16,10 @@ namespace gapflux {
 // NUL-terminated UTF-8 bytes, in region_ids order): the id → name map.
 // Rotor-side nodes are drawn turned by the band's rotor angle. Throws std::runtime_error on I/O
 // failure.
-void write_mesh_vtu(const std::string& path, const Mesh& mesh, const BandMesh* band);
+// `cell_fields`: extra per-triangle arrays (mesh triangles only; band cells get 0).
+void write_mesh_vtu(
+    const std::string& path, const Mesh& mesh, const BandMesh* band,
+    const std::vector<std::pair<std::string, std::vector<double>>>& cell_fields = {});
 
 }  // namespace gapflux
 
