@@ -13,6 +13,7 @@
 #include "geometry/mesher.hpp"
 #include "materials/library.hpp"
 #include "postproc/field_evaluation.hpp"
+#include "postproc/losses.hpp"
 #include "postproc/results_file.hpp"
 #include "postproc/run_analysis.hpp"
 #include "postproc/saturation.hpp"
@@ -34,8 +35,8 @@ class TransientStudy {
   void write_fields(int n, const MagnetostaticSystem& system, const ElementFields& fields);
   // Peak |B| and time over the threshold per triangle over the last period, written to
   // results.h5 (saturation/) and saturation.vtu.
-  SaturationMap saturation_over_last_period(int done);
-  RunRecord read_record(int done) const;  // the finished steps, for the analysis
+  SaturationMap saturation_over_last_period(int done);  // also fills iron_loss_
+  RunRecord read_record(int done) const;                // the finished steps, for the analysis
   void finish(const std::string& failure);
 
   std::string case_path_, out_dir_;
@@ -47,6 +48,7 @@ class TransientStudy {
   CoilRegions coils_;
   TimeGrid grid_;
   int airgap_samples_ = 0;
+  IronLoss iron_loss_;
   std::unique_ptr<ResultsFile> h5_;
   Eigen::VectorXd x_last_;  // the last step's solution (warm start)
   std::array<double, 3> psi_last_{0, 0, 0};

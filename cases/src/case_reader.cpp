@@ -206,6 +206,10 @@ MaterialDefinition parse_material_definition(TableReader t, const std::string& n
   d.temperature_coefficient_per_k =
       number_in(t, "temperature_coefficient_per_k", 0.0, -0.1, 0.1, "1/K");
   d.density_kg_per_m3 = number_in(t, "density_kg_per_m3", 0.0, 0.0, 30000.0, "kg/m³");
+  d.specific_loss_w_per_kg =
+      number_in(t, "specific_loss_w_per_kg", 0.0, 0.0, 1000.0, "W/kg (at 1.5 T, 50 Hz)");
+  d.thickness_m = t.has("thickness_mm") ? length_mm(t, "thickness_mm", {}, "") : 0.0;
+  if (!t.has("thickness_mm")) t.know("thickness_mm");
   if (d.kind == MaterialKind::conductor && d.conductivity_s_per_m <= 0.0)
     throw t.missing("conductivity_s_per_m", "the conductivity of a conductor, in S/m (> 0)");
   t.finish();

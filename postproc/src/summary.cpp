@@ -211,6 +211,15 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                        {"over", "the last electrical period"},
                        {"threshold", "the case's, else each iron's knee (0: linear, no knee)"}};
   }
+  if (s.losses_available)
+    j["losses"] = {{"iron_w", s.iron_stator_w + s.iron_rotor_w},
+                   {"iron_stator_w", s.iron_stator_w},
+                   {"iron_rotor_w", s.iron_rotor_w},
+                   {"over", "the last electrical period"},
+                   {"model",
+                    "Steinmetz/Bertotti per triangle from the time harmonics of B_x and B_y, each "
+                    "as an alternating field; rotational loss not modelled separately; the rotor's "
+                    "slip-frequency field is not resolved within one supply period"}};
   j["cautions"] = {
       "Results come from a 2-D magnetostatic model with imposed currents; the cage's own induced "
       "currents, end effects, skew and temperature rise are not modelled.",

@@ -91,6 +91,8 @@ struct MaterialDefinition {
   double conductivity_s_per_m = 0.0;
   double temperature_coefficient_per_k = 0.0;
   double density_kg_per_m3 = 0.0;
+  double specific_loss_w_per_kg = 0.0;  // steels: loss at 1.5 T, 50 Hz; 0: no loss data
+  double thickness_m = 0.0;             // steels: lamination thickness
 };
 
 // Region → material name. Names are resolved against the case's own definitions, then the

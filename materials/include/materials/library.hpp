@@ -10,6 +10,7 @@
 
 #include "cases/case.hpp"
 #include "materials/bh_curve.hpp"
+#include "materials/iron_loss.hpp"
 
 namespace gapflux {
 
@@ -25,6 +26,8 @@ struct Material {
   double temperature_coefficient_per_k = 0.0;
   double density_kg_per_m3 = 0.0;
   double specific_loss_w_per_kg = 0.0;  // grade figure at 1.5 T, 50 Hz (EN 10106 naming)
+  double lamination_thickness_m = 0.0;  // electrical steels
+  IronLossModel iron_loss;              // fitted to the grade figure; empty without one
 
   bool nonlinear() const { return static_cast<bool>(curve); }
   // ν and dν/d(B²) at B² (T²).

@@ -43,9 +43,12 @@ struct RunSummary {
   std::vector<std::pair<double, double>> torque_harmonics;  // (order in multiples of f, amplitude)
   double bar_rms_a = 0.0;                                   // imposed rotor currents, 0 if none
   std::optional<RunAnalysis> analysis;
-  std::optional<SaturationMap> saturation;  // time stepping: over the last electrical period  //
-                                            // time stepping: sequences, waves, locus, attribution
-  std::string supply_form;                  // "phases", "sequence" or "waveform"
+  std::optional<SaturationMap> saturation;  // time stepping: over the last electrical period
+  bool losses_available = false;
+  double iron_stator_w = 0.0,
+         iron_rotor_w = 0.0;  //
+                              // time stepping: sequences, waves, locus, attribution
+  std::string supply_form;    // "phases", "sequence" or "waveform"
   // The fundamental phasors as described (RMS), for the unbalance of a static study; unset for
   // a measured table, which only a time-stepping run analyses.
   std::optional<std::array<Phasor, 3>> described_fundamental;
