@@ -23,6 +23,7 @@
 #include "solver/region_model.hpp"
 #include "solver/rotor_currents.hpp"
 #include "solver/supply_currents.hpp"
+#include "solver/winding_resistance.hpp"
 
 namespace gapflux {
 namespace {
@@ -383,6 +384,18 @@ void TransientStudy::finish(const std::string& failure) {
     s.losses_available = true;
     s.iron_stator_w = iron_loss_.stator_w;
     s.iron_rotor_w = iron_loss_.rotor_w;
+    // Copper: I²R per phase with the RMS over the same period (harmonics included).
+    const WindingResistance r = phase_resistance(case_, lamination_, materials_.coils);
+    const std::vector<double> i = h5_->read("steps/phase_current");
+    const int spp = grid_.steps_per_period;
+    s.copper_w = 0.0;
+    for (int n = done - spp; n < done; ++n)
+      for (int k = 0; k < 3; ++k)
+        s.copper_w += r.resistance_ohm * i[n * 3 + k] * i[n * 3 + k] / spp;
+    s.phase_resistance_ohm = r.resistance_ohm;
+    s.end_winding_length_m = r.end_winding_length_m;
+    s.end_winding_estimated = r.end_winding_estimated;
+    s.conductor_temperature_c = r.temperature_c;
   }
   s.torque_harmonics.clear();
   for (const TorqueHarmonic& t : s.analysis->torque_harmonics)
@@ -408,9 +421,11 @@ void TransientStudy::finish(const std::string& failure) {
   if (s.saturation) print_saturation_table(stdout, *s.saturation);
   if (s.losses_available)
     fmt::print(
-        "  iron loss over the last period: stator {:.1f} W, rotor {:.1f} W (Steinmetz/"
-        "Bertotti from the grade figure; rotational loss not separate)\n",
-        s.iron_stator_w, s.iron_rotor_w);
+        "  losses over the last period: iron stator {:.1f} W, rotor {:.1f} W (Steinmetz/"
+        "Bertotti from the grade figure; rotational loss not separate); stator copper "
+        "{:.1f} W (R = {:.4f} Ω per phase at {:g} °C)\n",
+        s.iron_stator_w, s.iron_rotor_w, s.copper_w, s.phase_resistance_ohm,
+        s.conductor_temperature_c);
   fmt::print("wrote {}/results.h5, fields.pvd, summary.json\n", out_dir_);
 }
 

@@ -179,6 +179,12 @@ WindingSpec parse_winding(TableReader t, int slots, int poles) {
   w.coil_pitch_slots = integer_in(t, "coil_pitch_slots", full_pitch, 1, std::max(1, slots / 2));
   w.turns_per_coil = integer_in(t, "turns_per_coil", std::nullopt, 1, 100000);
   w.parallel_paths = integer_in(t, "parallel_paths", 1, 1, 128);
+  w.fill_factor = number_in(t, "fill_factor", 0.40, 0.05, 0.95, "(copper area / coil-side area)");
+  if (t.has("end_winding_length_mm"))
+    w.end_winding_length_m = length_mm(t, "end_winding_length_mm", {}, "");
+  else
+    t.know("end_winding_length_mm");
+  w.conductor_temperature_c = number_in(t, "conductor_temperature_c", 75.0, -60.0, 300.0, "°C");
   t.finish();
   return w;
 }

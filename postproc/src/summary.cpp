@@ -215,6 +215,17 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
     j["losses"] = {{"iron_w", s.iron_stator_w + s.iron_rotor_w},
                    {"iron_stator_w", s.iron_stator_w},
                    {"iron_rotor_w", s.iron_rotor_w},
+                   {"copper_w", s.copper_w},
+                   {"copper",
+                    {{"phase_resistance_ohm", s.phase_resistance_ohm},
+                     {"conductor_temperature_c", s.conductor_temperature_c},
+                     {"end_winding_length_m", s.end_winding_length_m},
+                     {"end_winding_estimated", s.end_winding_estimated},
+                     {"model",
+                      "DC resistance ρ(T)·N_s·2(L_stack + l_end)/(a·A_c), A_c = fill × "
+                      "coil-side area / turns per coil; I² as the RMS over the period; "
+                      "no skin or proximity effect; bars' losses not included (imposed "
+                      "currents)"}}},
                    {"over", "the last electrical period"},
                    {"model",
                     "Steinmetz/Bertotti per triangle from the time harmonics of B_x and B_y, each "

@@ -5,8 +5,12 @@
 #include <cmath>
 #include <numbers>
 
+#include "cases/case_reader.hpp"
+#include "geometry/lamination.hpp"
 #include "materials/library.hpp"
 #include "postproc/losses.hpp"
+#include "solver/winding_resistance.hpp"
+#include "test_support.hpp"
 
 using namespace gapflux;
 
@@ -98,4 +102,33 @@ TEST_CASE(
                                       [](double wt) { return 1.5 * std::sin(wt); }),
                                steps, 50.0, stack, 1);
   CHECK(r.stator_w == Approx(2 * 2.70 * mass).epsilon(1e-12));
+}
+
+// Copper: R = ρ(T)·N_s·l_turn/(a·A_c) worked by hand for the invented reference stator: 24 open
+// radial slots of 7.5° from r = 60 to 80 mm, single layer, 10 turns per coil, 4 poles → 8 coil
+// sides of phase a, N_s = 8·10/2 = 40; coil side = the whole slot, (7.5/360)·π·(0.08² − 0.06²)
+// = 1.8326e-4 m²; fill 0.4 → A_c = 7.330e-6 m²; l_turn = 2·(0.100 + 0.150) = 0.5 m; copper at
+// 75 °C: 5.80e7/(1 + 0.00393·55) S/m (handbook values, from memory). Tolerance 1e-9: the areas
+// are exact for radial slots.
+TEST_CASE("stator phase resistance and copper loss against a hand calculation",
+          "[postproc][losses]") {
+  std::string text = test::read_text(test::example("reference_radial_4p24s.toml"));
+  text.replace(text.find("turns_per_coil = 10"), 19,
+               "turns_per_coil = 10\nfill_factor = 0.4\nend_winding_length_mm = 150.0\n"
+               "conductor_temperature_c = 75.0");
+  const Case c = read_case_text(text, "inline.toml");
+  const Lamination lam = build_lamination(c);
+  const WindingResistance r = phase_resistance(c, lam, *find_material("copper"));
+  const double side = 7.5 / 360.0 * pi * (0.08 * 0.08 - 0.06 * 0.06);
+  const double area = 0.4 * side / 10.0;
+  const double sigma = 5.80e7 / (1.0 + 0.00393 * 55.0);
+  CHECK(r.conductor_area_m2 == Approx(area).epsilon(1e-9));
+  CHECK(r.turn_length_m == Approx(0.5).epsilon(1e-12));
+  CHECK_FALSE(r.end_winding_estimated);
+  CHECK(r.resistance_ohm == Approx(40.0 * 0.5 / (sigma * area)).epsilon(1e-9));
+  // Without a given end-winding length the estimate is used and said so.
+  const Case d = read_case_file(test::example("reference_radial_4p24s.toml"));
+  const WindingResistance e = phase_resistance(d, build_lamination(d), *find_material("copper"));
+  CHECK(e.end_winding_estimated);
+  CHECK(e.end_winding_length_m > 0.0);
 }

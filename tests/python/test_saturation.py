@@ -11,7 +11,10 @@ iron), rotor locked, one period of 24 steps, 30 A balanced and then with phase a
   not a rule);
 - the same case with linear iron (μr = 1000) reports no area above the threshold (a linear
   material has no knee), and with a case threshold of 0.3 T it does;
-- saturation.vtu holds peak_B per cell equal to results.h5's, read with meshio.
+- saturation.vtu holds peak_B per cell equal to results.h5's, read with meshio;
+- the copper loss is 3·I²·R with the summary's phase resistance for the balanced 30 A (I²R;
+  the resistance itself is checked by hand in tests/postproc/test_losses.cpp), and the iron loss
+  is positive in stator and rotor (the locked rotor sees the full-frequency field).
 """
 import json
 import os
@@ -89,6 +92,12 @@ vtu = meshio.read(os.path.join(balanced_dir, "saturation.vtu"))
 cells = np.concatenate([np.asarray(c) for c in vtu.cell_data["peak_B"]])
 check(cells.shape == peak.shape and np.allclose(cells, peak, rtol=0, atol=1e-12),
       "saturation.vtu peak_B differs from results.h5")
+
+losses = balanced["losses"]
+r = losses["copper"]["phase_resistance_ohm"]
+check(abs(losses["copper_w"] - 3 * 30.0 ** 2 * r) < 1e-9 * losses["copper_w"],
+      f"copper loss {losses['copper_w']} W vs 3·I²·R = {3 * 30.0 ** 2 * r} W")
+check(losses["iron_stator_w"] > 0 and losses["iron_rotor_w"] > 0, f"iron losses {losses}")
 
 _, lin = run("linear", "[supply]\nrms_a = 30.0\n", linear)
 over = max(z["area_fraction_over"] for z in lin["saturation"]["regions"])

@@ -78,6 +78,10 @@ struct WindingSpec {
   int coil_pitch_slots = 0;  // 0 until resolved: default full pitch Q/(2p)
   int turns_per_coil = 0;
   int parallel_paths = 1;
+  double fill_factor = 0.40;  // copper area / coil-side area
+  double end_winding_length_m =
+      0.0;  // one turn's end connection at one end; 0: estimated (winding_resistance)
+  double conductor_temperature_c = 75.0;
 };
 
 enum class MaterialKind { air, conductor, steel };

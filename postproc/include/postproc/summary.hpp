@@ -42,13 +42,16 @@ struct RunSummary {
   double torque_mean_nm = 0, torque_min_nm = 0, torque_max_nm = 0, torque_ripple_pct = 0;
   std::vector<std::pair<double, double>> torque_harmonics;  // (order in multiples of f, amplitude)
   double bar_rms_a = 0.0;                                   // imposed rotor currents, 0 if none
+  // Time stepping: sequences, waves, locus, attribution; saturation and losses over the last
+  // electrical period.
   std::optional<RunAnalysis> analysis;
-  std::optional<SaturationMap> saturation;  // time stepping: over the last electrical period
+  std::optional<SaturationMap> saturation;
   bool losses_available = false;
-  double iron_stator_w = 0.0,
-         iron_rotor_w = 0.0;  //
-                              // time stepping: sequences, waves, locus, attribution
-  std::string supply_form;    // "phases", "sequence" or "waveform"
+  double iron_stator_w = 0.0, iron_rotor_w = 0.0;
+  double copper_w = 0.0, phase_resistance_ohm = 0.0, end_winding_length_m = 0.0;
+  double conductor_temperature_c = 0.0;
+  bool end_winding_estimated = false;
+  std::string supply_form;  // "phases", "sequence" or "waveform"
   // The fundamental phasors as described (RMS), for the unbalance of a static study; unset for
   // a measured table, which only a time-stepping run analyses.
   std::optional<std::array<Phasor, 3>> described_fundamental;
