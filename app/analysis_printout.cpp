@@ -85,4 +85,32 @@ void print_saturation_table(std::FILE* out, const SaturationMap& s) {
   }
 }
 
+void print_baseline_table(std::FILE* out, const BaselineComparison& c) {
+  const auto pct = [](double run, double base) {
+    return base != 0.0 ? 100.0 * (run - base) / std::abs(base) : 0.0;
+  };
+  fmt::print(out, "\nagainst the balanced baseline ({}):\n", c.baseline_dir);
+  fmt::print(out, "  iron loss   {:9.2f} W vs {:9.2f} W  ({:+.2f} %)\n", c.iron_w,
+             c.baseline_iron_w, pct(c.iron_w, c.baseline_iron_w));
+  fmt::print(out, "  copper loss {:9.2f} W vs {:9.2f} W  ({:+.2f} %)\n", c.copper_w,
+             c.baseline_copper_w, pct(c.copper_w, c.baseline_copper_w));
+  fmt::print(out, "  total       {:9.2f} W vs {:9.2f} W  ({:+.2f} %)\n", c.total_w(),
+             c.baseline_total_w(), pct(c.total_w(), c.baseline_total_w()));
+  fmt::print(out, "  torque mean {:.4f} vs {:.4f} N·m, ripple {:.2f} % vs {:.2f} %\n",
+             c.torque_mean_nm, c.baseline_torque_mean_nm, c.ripple_pct, c.baseline_ripple_pct);
+  for (std::size_t i = 0; i < c.zones.size() && i < 4; ++i)
+    fmt::print(out, "  {:<30} peak {:.3f} T vs {:.3f} T ({:+.3f} T)\n", c.zones[i].name,
+               c.zones[i].peak_tesla, c.zones[i].baseline_peak_tesla,
+               c.zones[i].peak_tesla - c.zones[i].baseline_peak_tesla);
+  for (std::size_t i = 0; i < c.added_waves.size() && i < 5; ++i) {
+    const AddedWave& w = c.added_waves[i];
+    fmt::print(out, "  wave ν={:g} h={:g} {}: {:.4f} T vs {:.4f} T  {}\n", w.wave.space_order_el,
+               w.wave.time_order, w.wave.direction > 0 ? "forward" : "backward", w.wave.amplitude,
+               w.baseline_amplitude_tesla, w.label);
+  }
+  fmt::print(out,
+             "  Derating for unbalance follows NEMA MG-1 / IEC 60034-26 (voltage unbalance at the "
+             "terminals), the motor's maker and licensed practice; see summary.json baseline.\n");
+}
+
 }  // namespace gapflux

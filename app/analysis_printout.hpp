@@ -4,6 +4,7 @@
 // largest harmonics.
 #include <cstdio>
 
+#include "postproc/baseline.hpp"
 #include "postproc/run_analysis.hpp"
 #include "postproc/saturation.hpp"
 
@@ -14,5 +15,8 @@ void print_analysis_table(std::FILE* out, const RunAnalysis& a, double torque_me
 
 // The zones with the highest peak |B| over the last period.
 void print_saturation_table(std::FILE* out, const SaturationMap& s);
+
+// The run against its balanced baseline: losses, torque, the zones and waves that grew.
+void print_baseline_table(std::FILE* out, const BaselineComparison& c);
 
 }  // namespace gapflux

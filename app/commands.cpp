@@ -7,12 +7,15 @@
 #include <iostream>
 #include <numbers>
 
+#include "analysis_printout.hpp"
 #include "case_printout.hpp"
 #include "cases/case_reader.hpp"
 #include "geometry/lamination.hpp"
 #include "geometry/mesher.hpp"
 #include "geometry/moving_band.hpp"
 #include "materials/library.hpp"
+#include "postproc/baseline.hpp"
+#include "postproc/summary.hpp"
 #include "postproc/vtu_writer.hpp"
 #include "solver/supply_currents.hpp"
 #include "solver/time_grid.hpp"
@@ -80,6 +83,41 @@ int command_mesh(const std::string& case_path, const std::string& out_dir, const
   return 0;
 }
 
+namespace {
+
+// The same case on a balanced, harmonic-free supply of the run's positive-sequence fundamental,
+// into DIR/baseline; the differences go into DIR/summary.json and onto stdout.
+void run_baseline(const std::string& case_path, const std::string& out_dir,
+                  const TransientStudy& study) {
+  RunSummary run = study.summary();
+  if (!run.analysis || run.analysis->periods < 1)
+    throw std::runtime_error("--baseline needs at least one whole retained electrical period");
+  const HarmonicPhasors* f = find_order(run.analysis->current, 1.0);
+  if (!f) throw std::runtime_error("--baseline: the run has no fundamental current");
+  SupplySpec balanced;
+  balanced.frequency_hz = run.frequency_hz;
+  balanced.form = SupplyForm::phases;
+  balanced.rms_a = std::abs(f->sequences.positive);
+  const double angle = std::arg(f->sequences.positive);
+  for (int k = 0; k < 3; ++k)
+    balanced.phases[k] = {balanced.rms_a, angle - k * 2.0 * std::numbers::pi / 3.0};
+  const std::string dir = (std::filesystem::path(out_dir) / "baseline").string();
+  fmt::print("\n== baseline: balanced {:.4g} A at {:.2f}°, no harmonics, into {}\n", balanced.rms_a,
+             angle * 180.0 / std::numbers::pi, dir);
+  TransientStudy base(case_path, dir, false);
+  base.override_supply(balanced);
+  base.run();
+  BaselineComparison c = compare_with_baseline(run, base.summary());
+  c.baseline_dir = dir;
+  c.fundamental_rms_a = balanced.rms_a;
+  c.fundamental_angle_deg = angle * 180.0 / std::numbers::pi;
+  run.baseline = c;
+  write_summary_json(study.summary_path(), run);
+  print_baseline_table(stdout, c);
+}
+
+}  // namespace
+
 int command_run(const std::string& case_path, const std::string& out_dir,
                 const CommonOptions& options) {
   if (options.threads > 0) omp_set_num_threads(options.threads);
@@ -87,9 +125,14 @@ int command_run(const std::string& case_path, const std::string& out_dir,
   if (options.resume && !stepping)
     throw InputError(case_path, {}, "study.kind",
                      "--resume continues a time-stepping study; this case is static");
+  if (options.baseline && !stepping)
+    throw InputError(case_path, {}, "study.kind",
+                     "--baseline compares time-stepping studies; this case is static");
   try {
     if (stepping) {
-      TransientStudy(case_path, out_dir, options.resume).run();
+      TransientStudy study(case_path, out_dir, options.resume);
+      study.run();
+      if (options.baseline) run_baseline(case_path, out_dir, study);
     } else {
       StaticStudy(case_path, out_dir).run();
     }

@@ -6,8 +6,9 @@
 namespace gapflux {
 
 struct CommonOptions {
-  int threads = 0;      // 0: as many as the machine has
-  bool resume = false;  // run: continue a killed time-stepping run
+  int threads = 0;        // 0: as many as the machine has
+  bool resume = false;    // run: continue a killed time-stepping run
+  bool baseline = false;  // run: also run the balanced, harmonic-free baseline and compare
 };
 
 int command_check(const std::string& case_path, const CommonOptions& options);

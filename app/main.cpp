@@ -33,6 +33,9 @@ int main(int argc, char** argv) {
   run->add_option("--out", out_dir, "output directory")->required();
   run->add_flag("--resume", options.resume,
                 "continue a killed time-stepping run from its last finished step in DIR");
+  run->add_flag("--baseline", options.baseline,
+                "also run the same case on a balanced, harmonic-free supply of its "
+                "positive-sequence fundamental (into DIR/baseline) and report the differences");
 
   try {
     app.parse(argc, argv);

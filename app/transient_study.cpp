@@ -77,6 +77,7 @@ void TransientStudy::run() {
 
 void TransientStudy::set_up() {
   case_ = read_case_file(case_path_);
+  if (supply_override_) case_.supply = *supply_override_;
   materials_ = resolve_region_materials(case_);
   lamination_ = build_lamination(case_);
   mesh_ = mesh_lamination(lamination_, resolve_mesh_settings(case_, lamination_));
@@ -296,6 +297,10 @@ SaturationMap TransientStudy::saturation_over_last_period(int done) {
   return map;
 }
 
+std::string TransientStudy::summary_path() const {
+  return (fs::path(out_dir_) / "summary.json").string();
+}
+
 RunRecord TransientStudy::read_record(int done) const {
   RunRecord r;
   r.frequency_hz = grid_.frequency_hz;
@@ -402,7 +407,8 @@ void TransientStudy::finish(const std::string& failure) {
     s.torque_harmonics.emplace_back(t.order, t.amplitude_nm);
   if (failure.empty()) h5_->attribute("/", "converged", 1L);
   h5_->flush();
-  write_summary_json((fs::path(out_dir_) / "summary.json").string(), s);
+  write_summary_json(summary_path(), s);
+  summary_ = s;
 
   fmt::print("case: {}\n", case_.machine.name);
   fmt::print(

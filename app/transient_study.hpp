@@ -17,6 +17,7 @@
 #include "postproc/results_file.hpp"
 #include "postproc/run_analysis.hpp"
 #include "postproc/saturation.hpp"
+#include "postproc/summary.hpp"
 #include "solver/magnetostatic_system.hpp"
 #include "solver/time_grid.hpp"
 #include "solver/winding_sources.hpp"
@@ -27,6 +28,11 @@ class TransientStudy {
  public:
   TransientStudy(std::string case_path, std::string out_dir, bool resume);
   void run();  // throws InputError, NumericalError (after saving the finished steps)
+  // Replaces the case's supply (the balanced baseline of --baseline); before run().
+  void override_supply(const SupplySpec& supply) { supply_override_ = supply; }
+  // After run(): what summary.json holds, and where.
+  const RunSummary& summary() const { return summary_; }
+  std::string summary_path() const;
 
  private:
   void set_up();
@@ -49,6 +55,8 @@ class TransientStudy {
   TimeGrid grid_;
   int airgap_samples_ = 0;
   IronLoss iron_loss_;
+  std::optional<SupplySpec> supply_override_;
+  RunSummary summary_;
   std::unique_ptr<ResultsFile> h5_;
   Eigen::VectorXd x_last_;  // the last step's solution (warm start)
   std::array<double, 3> psi_last_{0, 0, 0};

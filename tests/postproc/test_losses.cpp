@@ -63,7 +63,7 @@ TEST_CASE("iron loss model: the grade figure at 1.5 T, 50 Hz and the exponents' 
 
 TEST_CASE(
     "iron loss from sampled fields: a uniform alternating 1.5 T at 50 Hz gives the grade "
-    "figure; harmonics and a rotating field add as stated",
+    "figure, and harmonics and a rotating field add as stated",
     "[postproc][losses]") {
   const Mesh mesh = square_of_iron();
   const Material* m = find_material("M270-35A");

@@ -11,6 +11,9 @@ iron), rotor locked, one period of 24 steps, 30 A balanced and then with phase a
   not a rule);
 - the same case with linear iron (μr = 1000) reports no area above the threshold (a linear
   material has no knee), and with a case threshold of 0.3 T it does;
+- the balanced case run with --baseline is compared with itself: every difference (losses,
+  torque, zone peaks, waves) vanishes to 1e-9 relative (its baseline supply is rebuilt from the
+  run's positive-sequence phasor, exact to round-off);
 - saturation.vtu holds peak_B per cell equal to results.h5's, read with meshio;
 - the copper loss is 3·I²·R with the summary's phase resistance for the balanced 30 A (I²R;
   the resistance itself is checked by hand in tests/postproc/test_losses.cpp), and the iron loss
@@ -53,12 +56,12 @@ relative_permeability = 1000.0
 """
 
 
-def run(name, supply, extra=""):
+def run(name, supply, extra="", flags=()):
     case = os.path.join(tmp, name + ".toml")
     open(case, "w").write(base + supply + extra + study)
     out = os.path.join(tmp, name)
     shutil.rmtree(out, ignore_errors=True)
-    r = subprocess.run([gapflux, "run", case, "--out", out], capture_output=True, text=True)
+    r = subprocess.run([gapflux, "run", case, "--out", out, *flags], capture_output=True, text=True)
     check(r.returncode == 0, f"{name}: run failed ({r.returncode}): {r.stderr[-2000:]}")
     return out, json.load(open(os.path.join(out, "summary.json")))
 
@@ -68,7 +71,7 @@ def teeth(summary):
             if z["name"].startswith("stator tooth ") and "tip" not in z["name"]}
 
 
-balanced_dir, balanced = run("balanced", "[supply]\nrms_a = 30.0\n")
+balanced_dir, balanced = run("balanced", "[supply]\nrms_a = 30.0\n", flags=("--baseline",))
 raised_dir, raised = run("raised", "[supply]\nrms_a = 30.0\n[supply.phases]\na = { rms_a = 33.0 }\n")
 p = balanced["winding"]["poles"] // 2
 axis_a = np.radians(balanced["winding"]["phase_axis_deg_el"][0])
@@ -92,6 +95,17 @@ vtu = meshio.read(os.path.join(balanced_dir, "saturation.vtu"))
 cells = np.concatenate([np.asarray(c) for c in vtu.cell_data["peak_B"]])
 check(cells.shape == peak.shape and np.allclose(cells, peak, rtol=0, atol=1e-12),
       "saturation.vtu peak_B differs from results.h5")
+
+b = balanced["baseline"]
+for key in ("iron_w", "copper_w", "total_w"):
+    v = b["losses"][key]
+    check(abs(v["change"]) <= 1e-9 * abs(v["baseline"]), f"baseline {key} change {v}")
+check(abs(b["torque"]["mean_nm"]["change"]) <= 1e-9 * abs(b["torque"]["mean_nm"]["baseline"]) + 1e-12,
+      f"baseline torque change {b['torque']['mean_nm']}")
+worst = max([abs(z["change_tesla"]) for z in b["saturation"]] +
+            [abs(w["amplitude_tesla"] - w["baseline_amplitude_tesla"]) for w in b["added_waves"]])
+check(worst < 1e-9, f"a balanced case differs from itself by {worst} T")
+check(abs(b["supply"]["rms_a"] - 30.0) < 1e-9, f"baseline current {b['supply']}")
 
 losses = balanced["losses"]
 r = losses["copper"]["phase_resistance_ohm"]

@@ -8,6 +8,7 @@
 #include <optional>
 
 #include "geometry/winding_layout.hpp"
+#include "postproc/baseline.hpp"
 #include "postproc/run_analysis.hpp"
 #include "postproc/saturation.hpp"
 
@@ -51,7 +52,8 @@ struct RunSummary {
   double copper_w = 0.0, phase_resistance_ohm = 0.0, end_winding_length_m = 0.0;
   double conductor_temperature_c = 0.0;
   bool end_winding_estimated = false;
-  std::string supply_form;  // "phases", "sequence" or "waveform"
+  std::optional<BaselineComparison> baseline;  // with --baseline
+  std::string supply_form;                     // "phases", "sequence" or "waveform"
   // The fundamental phasors as described (RMS), for the unbalance of a static study; unset for
   // a measured table, which only a time-stepping run analyses.
   std::optional<std::array<Phasor, 3>> described_fundamental;
