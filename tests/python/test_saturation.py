@@ -14,13 +14,17 @@ iron), rotor locked, one period of 24 steps, 30 A balanced and then with phase a
 - the balanced case run with --baseline is compared with itself: every difference (losses,
   torque, zone peaks, waves) vanishes to 1e-9 relative (its baseline supply is rebuilt from the
   run's positive-sequence phasor, exact to round-off);
+- the report (postproc/report/make_report.py, matplotlib) renders for the balanced run with its
+  baseline: every embedded image decodes to a non-empty PNG, and the cautions are on the page;
 - saturation.vtu holds peak_B per cell equal to results.h5's, read with meshio;
 - the copper loss is 3·I²·R with the summary's phase resistance for the balanced 30 A (I²R;
   the resistance itself is checked by hand in tests/postproc/test_losses.cpp), and the iron loss
   is positive in stator and rotor (the locked rotor sees the full-frequency field).
 """
+import base64
 import json
 import os
+import re
 import shutil
 import subprocess
 import sys
@@ -112,6 +116,18 @@ r = losses["copper"]["phase_resistance_ohm"]
 check(abs(losses["copper_w"] - 3 * 30.0 ** 2 * r) < 1e-9 * losses["copper_w"],
       f"copper loss {losses['copper_w']} W vs 3·I²·R = {3 * 30.0 ** 2 * r} W")
 check(losses["iron_stator_w"] > 0 and losses["iron_rotor_w"] > 0, f"iron losses {losses}")
+
+script = os.path.join(os.path.dirname(os.path.abspath(examples)), "..", "postproc", "report",
+                      "make_report.py")
+rep = subprocess.run([sys.executable, script, balanced_dir], capture_output=True, text=True)
+check(rep.returncode == 0, f"report failed: {rep.stderr[-2000:]}")
+page = open(os.path.join(balanced_dir, "report.html")).read()
+images = re.findall(r'src="data:image/png;base64,([^"]+)"', page)
+check(len(images) >= 7, f"the report holds {len(images)} images, expected at least 7")
+for data in images:
+    png = base64.b64decode(data)
+    check(png[:8] == b"\x89PNG\r\n\x1a\n" and len(png) > 1000, "an embedded image is not a PNG")
+check("Cautions" in page and "licensed" in page, "the report lacks its cautions")
 
 _, lin = run("linear", "[supply]\nrms_a = 30.0\n", linear)
 over = max(z["area_fraction_over"] for z in lin["saturation"]["regions"])

@@ -1,0 +1,216 @@
+"""DIR/report.html from a time-stepping run's results.h5 and summary.json: a self-contained page
+(images embedded) readable without gapflux. Plots are drawn by matplotlib (Debian's
+python3-matplotlib), the results read with h5py.
+
+Usage: make_report.py DIR
+"""
+import base64
+import html
+import io
+import json
+import os
+import sys
+
+import h5py
+import matplotlib
+
+matplotlib.use("Agg")
+import matplotlib.pyplot as plt  # noqa: E402
+import numpy as np  # noqa: E402
+from matplotlib.collections import LineCollection  # noqa: E402
+from matplotlib.tri import Triangulation  # noqa: E402
+
+INK, ACCENT, MUTED, WARM = "#1d3557", "#e07a1f", "#8d99ae", "#b5172b"
+
+
+def text(v):
+    return v.decode() if isinstance(v, bytes) else str(v)
+
+
+def figure_html(fig, caption):
+    buf = io.BytesIO()
+    fig.savefig(buf, format="png", dpi=110, bbox_inches="tight")
+    plt.close(fig)
+    data = base64.b64encode(buf.getvalue()).decode()
+    return (f'<figure><img alt="{html.escape(caption)}" src="data:image/png;base64,{data}">'
+            f"<figcaption>{html.escape(caption)}</figcaption></figure>")
+
+
+def table_html(header, rows):
+    head = "".join(f"<th>{html.escape(str(h))}</th>" for h in header)
+    body = "".join("<tr>" + "".join(f"<td>{html.escape(str(c))}</td>" for c in r) + "</tr>" for r in rows)
+    return f"<table><thead><tr>{head}</tr></thead><tbody>{body}</tbody></table>"
+
+
+def full_circle(f, name, squared=False):
+    b = f[name][...]
+    sectors = int(f["mesh"].attrs["sectors"])
+    sign = 1.0 if squared or not int(f["mesh"].attrs["antiperiodic"]) else -1.0
+    return np.array([np.concatenate([row * sign ** k for k in range(sectors)]) for row in b])
+
+
+def main(out):
+    s = json.load(open(os.path.join(out, "summary.json")))
+    f = h5py.File(os.path.join(out, "results.h5"), "r")
+    parts = []
+    p = s["winding"]["poles"] // 2
+
+    # Case and cautions.
+    sup = s["supply"]
+    unb = sup.get("unbalance", {})
+    parts.append("<h2>Case</h2>" + table_html(["item", "value"], [
+        ["case", s["case_name"]],
+        ["winding", f'{s["winding"]["slots"]} slots, {s["winding"]["poles"]} poles, '
+                    f'{s["winding"]["layers"]} layer(s), pitch {s["winding"]["coil_pitch_slots"]} slots'],
+        ["supply", f'{sup["frequency_hz"]:.6g} Hz, given as {sup.get("form", "?")}'],
+        ["current unbalance", f'VUF {unb.get("vuf_pct", 0):.3f} %, LVUR {unb.get("lvur_pct", 0):.3f} %, '
+                              f'PVUR {unb.get("pvur_pct", 0):.3f} %'],
+        ["steps", f'{s["solver"]["steps"]} ({s["study"]["steps_per_period"]} per period), '
+                  f'{s["solver"]["newton_iterations"]} Newton iterations, {s["solver"]["wall_s"]:.0f} s'],
+    ]))
+    parts.append("<div class='caution'><b>Cautions.</b> " +
+                 " ".join(html.escape(c) for c in s.get("cautions", [])) + "</div>")
+
+    # B_r(θ) at three instants.
+    br = full_circle(f, "steps/airgap_B_r")
+    theta0 = f["airgap/theta"][0]
+    th = np.degrees(theta0 + 2 * np.pi * np.arange(br.shape[1]) / br.shape[1])
+    times = f["steps/time"][...].ravel()
+    fig, ax = plt.subplots(figsize=(8, 3))
+    for n, colour in zip([len(times) - 1 - k * (len(times) // 6) for k in range(3)], [INK, ACCENT, MUTED]):
+        ax.plot(th, br[n], color=colour, lw=1, label=f"t = {times[n] * 1e3:.2f} ms")
+    ax.set_xlabel("mechanical angle θ (°)")
+    ax.set_ylabel("B_r at mid-gap (T)")
+    ax.legend(frameon=False, fontsize=8)
+    parts.append("<h2>Airgap field</h2>" + figure_html(fig, "Radial flux density around the airgap at three instants"))
+
+    # Space-harmonic spectrum (window mean).
+    orders = f["analysis/space_harmonics/order_mech"][...]
+    amps = f["analysis/space_harmonics/amplitude"][...]
+    fig, ax = plt.subplots(figsize=(8, 3))
+    ax.bar(orders / p, amps, width=0.6, color=INK)
+    ax.set_xlabel("electrical space order ν")
+    ax.set_ylabel("amplitude (T)")
+    ax.set_yscale("log")
+    parts.append(figure_html(fig, "Space harmonics of B_r, mean over the analysis window (log scale)"))
+
+    # Wave table.
+    w = f["analysis/waves"]
+    rows = []
+    for i in range(min(15, len(w["amplitude"]))):
+        d = int(w["direction"][i])
+        rows.append([f'{w["space_order_mech"][i] / p:g}', f'{w["time_order"][i]:g}',
+                     "forward" if d > 0 else "backward" if d < 0 else "standing",
+                     f'{w["amplitude"][i]:.4f}', text(w["label"][i])])
+    parts.append("<h3>Largest space–time waves</h3>" +
+                 table_html(["ν (el)", "time order", "direction", "B (T)", "reading"], rows))
+
+    # Locus against the balanced circle.
+    path = f["analysis/locus/space_fundamental"][...]
+    loc = s["airgap"]["locus"]
+    fig, ax = plt.subplots(figsize=(4, 4))
+    z = path[:, 0] + 1j * path[:, 1]
+    z = np.append(z, z[0])
+    ax.plot(z.real, z.imag, color=ACCENT, lw=1.5, label="traced space fundamental")
+    circle = loc["forward_tesla"] * np.exp(1j * np.linspace(0, 2 * np.pi, 200))
+    ax.plot(circle.real, circle.imag, color=MUTED, ls="--", lw=1, label="balanced circle (B_f)")
+    ax.set_aspect("equal")
+    ax.set_xlabel("Re (T)")
+    ax.set_ylabel("Im (T)")
+    ax.legend(frameon=False, fontsize=8, loc="lower left")
+    parts.append("<h3>Field locus</h3>" + figure_html(
+        fig, f'Locus of the space fundamental: {loc["major_tesla"]:.4f} × {loc["minor_tesla"]:.4f} T, '
+             f'axis ratio {loc["axis_ratio"]:.4f}'))
+
+    # Torque over time and its spectrum.
+    torque = f["steps/torque"][...].ravel()
+    fig, (a1, a2) = plt.subplots(1, 2, figsize=(9, 3))
+    a1.plot(times * 1e3, torque, color=INK, lw=1)
+    a1.set_xlabel("time (ms)")
+    a1.set_ylabel("torque (N·m)")
+    th_orders = f["analysis/torque_harmonics/order"][...]
+    th_amps = f["analysis/torque_harmonics/amplitude"][...]
+    a2.bar(th_orders, th_amps, width=0.5, color=ACCENT)
+    a2.set_xlabel("order (× supply frequency)")
+    a2.set_ylabel("amplitude (N·m)")
+    tq = s.get("torque", {})
+    parts.append("<h2>Torque</h2>" + figure_html(
+        fig, f'Arkkio torque: mean {tq.get("mean_nm", 0):.4f} N·m, ripple {tq.get("ripple_pct", 0):.2f} %'))
+
+    # Saturation map with region outlines, and per-tooth peaks.
+    if "saturation" in f:
+        nodes = f["mesh/nodes"][...]
+        tri = f["mesh/triangles"][...][:, :3]
+        region = f["mesh/triangle_region"][...]
+        peak = f["saturation/peak_B"][...]
+        fig, ax = plt.subplots(figsize=(6, 6))
+        mesh = Triangulation(nodes[:, 0] * 1e3, nodes[:, 1] * 1e3, tri)
+        pc = ax.tripcolor(mesh, facecolors=peak, cmap="inferno", shading="flat")
+        edges = {}
+        for t, (a, b, c) in enumerate(tri):
+            for e in ((a, b), (b, c), (c, a)):
+                key = (min(e), max(e))
+                edges.setdefault(key, []).append(region[t])
+        outline = [nodes[list(k)] * 1e3 for k, r in edges.items() if len(r) == 1 or r[0] != r[1]]
+        ax.add_collection(LineCollection(outline, colors="white", linewidths=0.3))
+        ax.set_aspect("equal")
+        ax.set_xlabel("x (mm)")
+        ax.set_ylabel("y (mm)")
+        fig.colorbar(pc, ax=ax, label="peak |B| over the period (T)", shrink=0.8)
+        parts.append("<h2>Saturation</h2>" + figure_html(fig, "Peak |B| over the last period, region outlines in white"))
+        zones = f["saturation/zones"]
+        names = [text(n) for n in zones["name"][...]]
+        idx = [i for i, n in enumerate(names) if n.startswith("stator tooth ") and "tip" not in n]
+        fig, ax = plt.subplots(figsize=(8, 3))
+        ax.bar([zones["angle"][i] for i in idx], [zones["peak_B"][i] for i in idx], width=2.5, color=WARM)
+        thr = s["saturation"]["threshold_tesla"]
+        if thr > 0:
+            ax.axhline(thr, color=MUTED, ls="--", lw=1, label=f"threshold {thr:.2f} T")
+            ax.legend(frameon=False, fontsize=8)
+        ax.set_xlabel("tooth centre, mechanical angle (°)")
+        ax.set_ylabel("peak |B| (T)")
+        parts.append(figure_html(fig, "Peak |B| per stator tooth body"))
+
+    # Losses, against the baseline when there is one.
+    if "losses" in s:
+        lo = s["losses"]
+        labels = ["iron, stator", "iron, rotor", "copper"]
+        run = [lo["iron_stator_w"], lo["iron_rotor_w"], lo["copper_w"]]
+        fig, ax = plt.subplots(figsize=(6, 3))
+        x = np.arange(3)
+        if "baseline" in s:
+            bdir = s["baseline"]["dir"]
+            bs = json.load(open(os.path.join(bdir, "summary.json")))["losses"]
+            base = [bs["iron_stator_w"], bs["iron_rotor_w"], bs["copper_w"]]
+            ax.bar(x - 0.2, base, width=0.4, color=MUTED, label="balanced baseline")
+            ax.bar(x + 0.2, run, width=0.4, color=ACCENT, label="this supply")
+            ax.legend(frameon=False, fontsize=8)
+            tot = s["baseline"]["losses"]["total_w"]
+            caption = f'Losses: {tot["run"]:.1f} W against {tot["baseline"]:.1f} W balanced ({tot["change_pct"]:+.2f} %)'
+        else:
+            ax.bar(x, run, width=0.5, color=ACCENT)
+            caption = f'Losses: {sum(run):.1f} W (run with --baseline for the comparison)'
+        ax.set_xticks(x, labels)
+        ax.set_ylabel("W")
+        parts.append("<h2>Losses</h2>" + figure_html(fig, caption))
+        if "baseline" in s:
+            parts.append("<p>" + html.escape(s["baseline"]["guidance"]) + "</p><div class='caution'>" +
+                         html.escape(s["baseline"]["caution"]) + "</div>")
+
+    style = ("body{font-family:sans-serif;max-width:60em;margin:2em auto;color:#1d3557}"
+             "table{border-collapse:collapse;margin:0.5em 0}td,th{border-bottom:1px solid #ccd;"
+             "padding:0.2em 0.6em;text-align:left;font-size:0.9em}figure{margin:1em 0}"
+             "img{max-width:100%}figcaption{font-size:0.85em;color:#556}"
+             ".caution{background:#fff4e5;border-left:4px solid #e07a1f;padding:0.5em 1em;margin:1em 0}")
+    page = (f"<!DOCTYPE html><html><head><meta charset='utf-8'><title>gapflux report: "
+            f"{html.escape(s['case_name'])}</title><style>{style}</style></head><body>"
+            f"<h1>{html.escape(s['case_name'])}</h1>" + "".join(parts) + "</body></html>")
+    path = os.path.join(out, "report.html")
+    open(path, "w").write(page)
+    print(f"report: {path}")
+
+
+if __name__ == "__main__":
+    if len(sys.argv) != 2:
+        sys.exit("usage: make_report.py DIR  (a time-stepping run's output directory)")
+    main(sys.argv[1])
