@@ -127,7 +127,22 @@ RunAnalysis analyse_run(const RunRecord& r) {
   const std::vector<Wave> waves =
       space_time_waves(win, r.periods, a.window_start_s, r.frequency_hz, p, 1e-4);
   const double tol = 0.5 / r.periods;
-  for (const Wave& w : waves) a.waves.push_back({w, wave_label(r.orders, w, tol)});
+  for (const Wave& w : waves) {
+    std::string label = wave_label(r.orders, w, tol);
+    // A space-fundamental wave at a time order the currents do not carry comes from saturation
+    // or slotting, not from the supply.
+    if (label.starts_with("supply time harmonic")) {
+      bool carried = false;
+      for (const HarmonicPhasors& h : a.current)
+        carried = carried || std::abs(h.order - w.time_order) < tol;
+      if (!carried)
+        label = fmt::format(
+            "time order {:g} at space order 1, {}: not in the currents "
+            "(saturation or slotting)",
+            w.time_order, w.direction > 0 ? "forward" : "backward");
+    }
+    a.waves.push_back({w, label});
+  }
   a.locus = field_locus(waves, p);
   a.fundamental_path = space_fundamental(win, p);
   a.torque_harmonics = torque_harmonics(r, waves, a.current);
