@@ -35,29 +35,12 @@ import numpy as np
 
 gapflux, examples, tmp = sys.argv[1:4]
 os.makedirs(tmp, exist_ok=True)
+from reference_case import COARSE_MESH, LINEAR_IRON, locked_study, reference_without_supply
 from tally import check, finish
 
-base = open(os.path.join(examples, "reference_radial_4p24s.toml")).read()
-base = base[: base.index("[supply]")]
-study = """
-[mesh]
-airgap_size_mm = 0.5
-iron_size_mm = 6.0
-
-[study]
-kind = "time_stepping"
-steps_per_period = 24
-periods = 1
-motion = "locked"
-"""
-linear = """
-[materials]
-stator_iron = "linear_iron"
-rotor_iron = "linear_iron"
-[materials.define.linear_iron]
-kind = "steel"
-relative_permeability = 1000.0
-"""
+base = reference_without_supply(examples)
+study = COARSE_MESH + locked_study(24)
+linear = LINEAR_IRON
 
 
 def run(name, supply, extra="", flags=()):

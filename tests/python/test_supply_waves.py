@@ -38,28 +38,11 @@ import numpy as np
 
 gapflux, examples, tmp = sys.argv[1:4]
 os.makedirs(tmp, exist_ok=True)
+from reference_case import COARSE_MESH, LINEAR_IRON, locked_study, reference_without_supply
 from tally import check, finish
 
-base = open(os.path.join(examples, "reference_radial_4p24s.toml")).read()
-base = base[: base.index("[supply]")]
-common = """
-[materials]
-stator_iron = "linear_iron"
-rotor_iron = "linear_iron"
-[materials.define.linear_iron]
-kind = "steel"
-relative_permeability = 1000.0
-
-[mesh]
-airgap_size_mm = 0.5
-iron_size_mm = 6.0
-
-[study]
-kind = "time_stepping"
-steps_per_period = 36
-periods = 1
-motion = "locked"
-"""
+base = reference_without_supply(examples)
+common = LINEAR_IRON + COARSE_MESH + locked_study(36)
 
 
 def run(name, supply):
@@ -193,9 +176,8 @@ comp = open(os.path.join(examples, "compressor_2p24s.toml")).read()
 comp = comp.replace("opening_width_mm = 2.2", "opening_width_mm = 1.0")
 comp = comp[: comp.index("[rotor]")] + ("[rotor]\nkind = \"smooth\"\nouter_diameter_mm = 85.3\n"
                                          "shaft_diameter_mm = 30.0\n\n") + comp[comp.index("[winding]"):]
-comp = comp[: comp.index("[supply]")] + "[supply]\nrms_a = 4.0\n" + common.replace(
-    "[mesh]\nairgap_size_mm = 0.5\niron_size_mm = 6.0\n", "[mesh]\nband_nodes = 1560\n").replace(
-    "steps_per_period = 36", "steps_per_period = 24")
+comp = (comp[: comp.index("[supply]")] + "[supply]\nrms_a = 4.0\n" + LINEAR_IRON +
+        "\n[mesh]\nband_nodes = 1560\n" + locked_study(24))
 case = os.path.join(tmp, "forces.toml")
 open(case, "w").write(comp)
 out = os.path.join(tmp, "forces")
