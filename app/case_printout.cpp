@@ -101,16 +101,16 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
       const char* seq[3] = {"zero", "positive", "negative"};
       for (int q = 0; q < 3; ++q)
         fmt::print(out, "sequence.{} = {{ rms_a = {:g}, angle_deg = {:g} }}\n", seq[q],
-                   sp.sequence[q].rms_a, sp.sequence[q].angle_rad * to_deg);
+                   sp.sequence[q].rms, sp.sequence[q].angle_rad * to_deg);
       fmt::print(out, "# resolved to phases:\n");
     }
     for (int k = 0; k < 3; ++k)
       fmt::print(out, "{}phases.{} = {{ rms_a = {:.6g}, angle_deg = {:.6g} }}\n",
-                 sp.form == SupplyForm::sequence ? "# " : "", names[k], sp.phases[k].rms_a,
+                 sp.form == SupplyForm::sequence ? "# " : "", names[k], sp.phases[k].rms,
                  sp.phases[k].angle_rad * to_deg);
     // What the description amounts to, per order (Fortescue), before any field is solved.
     std::array<Phasor, 3> f;
-    for (int k = 0; k < 3; ++k) f[k] = std::polar(sp.phases[k].rms_a, sp.phases[k].angle_rad);
+    for (int k = 0; k < 3; ++k) f[k] = std::polar(sp.phases[k].rms, sp.phases[k].angle_rad);
     const SequenceSet q = fortescue(f);
     const UnbalanceMetrics u = unbalance_metrics(f);
     fmt::print(out,
@@ -118,19 +118,19 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
                "{:.3f} %, LVUR {:.3f} %, PVUR {:.3f} %\n",
                std::abs(q.positive), std::abs(q.negative), std::abs(q.zero), u.vuf_pct, u.lvur_pct,
                u.pvur_pct);
-    for (const CurrentComponent& h : sp.harmonics) {
+    for (const SupplyComponent& h : sp.harmonics) {
       std::array<Phasor, 3> x;
-      for (int k = 0; k < 3; ++k) x[k] = std::polar(h.rms_a[k], h.angle_rad[k]);
+      for (int k = 0; k < 3; ++k) x[k] = std::polar(h.rms[k], h.angle_rad[k]);
       const SequenceSet hq = fortescue(x);
       fmt::print(out, "# order {:g}: positive {:.4g} A, negative {:.4g} A, zero {:.4g} A\n",
                  h.order, std::abs(hq.positive), std::abs(hq.negative), std::abs(hq.zero));
     }
-    for (const CurrentComponent& h : sp.harmonics)
+    for (const SupplyComponent& h : sp.harmonics)
       fmt::print(out,
                  "# {}: order {:g}: a {:.4g} A ∠{:.4g}°, b {:.4g} A ∠{:.4g}°, c {:.4g} A "
                  "∠{:.4g}°\n",
-                 h.key_path, h.order, h.rms_a[0], wrapped_deg(h.angle_rad[0]), h.rms_a[1],
-                 wrapped_deg(h.angle_rad[1]), h.rms_a[2], wrapped_deg(h.angle_rad[2]));
+                 h.key_path, h.order, h.rms[0], wrapped_deg(h.angle_rad[0]), h.rms[1],
+                 wrapped_deg(h.angle_rad[1]), h.rms[2], wrapped_deg(h.angle_rad[2]));
   }
   fmt::print(out,
              "\n[mesh]\norder = {}\nairgap_size_mm = {:g}\niron_size_mm = {:g}\ngrowth_rate = "

@@ -97,19 +97,19 @@ void run_baseline(const std::string& case_path, const std::string& out_dir,
   SupplySpec balanced;
   balanced.frequency_hz = run.frequency_hz;
   balanced.form = SupplyForm::phases;
-  balanced.rms_a = std::abs(f->sequences.positive);
+  balanced.rms = std::abs(f->sequences.positive);
   const double angle = std::arg(f->sequences.positive);
   for (int k = 0; k < 3; ++k)
-    balanced.phases[k] = {balanced.rms_a, angle - k * 2.0 * std::numbers::pi / 3.0};
+    balanced.phases[k] = {balanced.rms, angle - k * 2.0 * std::numbers::pi / 3.0};
   const std::string dir = (std::filesystem::path(out_dir) / "baseline").string();
-  fmt::print("\n== baseline: balanced {:.4g} A at {:.2f}°, no harmonics, into {}\n", balanced.rms_a,
+  fmt::print("\n== baseline: balanced {:.4g} A at {:.2f}°, no harmonics, into {}\n", balanced.rms,
              angle * 180.0 / std::numbers::pi, dir);
   TransientStudy base(case_path, dir, false);
   base.override_supply(balanced);
   base.run();
   BaselineComparison c = compare_with_baseline(run, base.summary());
   c.baseline_dir = dir;
-  c.fundamental_rms_a = balanced.rms_a;
+  c.fundamental_rms_a = balanced.rms;
   c.fundamental_angle_deg = angle * 180.0 / std::numbers::pi;
   run.baseline = c;
   write_summary_json(study.summary_path(), run);

@@ -30,7 +30,7 @@ RunSummary common_summary(const Case& c, const Lamination& lamination, const Mes
   if (c.supply.form != SupplyForm::waveform) {
     std::array<Phasor, 3> f;
     for (int k = 0; k < 3; ++k)
-      f[k] = std::polar(c.supply.phases[k].rms_a, c.supply.phases[k].angle_rad);
+      f[k] = std::polar(c.supply.phases[k].rms, c.supply.phases[k].angle_rad);
     s.described_fundamental = f;
   }
   s.supply_form = c.supply.form == SupplyForm::phases     ? "phases"

@@ -85,6 +85,13 @@ void TransientStudy::set_up() {
   grid_ = make_time_grid(case_, mesh_.stator_ring.pitch_rad);
   airgap_samples_ =
       case_.output.airgap_samples > 0 ? case_.output.airgap_samples : default_airgap_samples(mesh_);
+  if (case_.supply.voltage_fed()) {
+    const WindingResistance r = phase_resistance(case_, lamination_, materials_.coils);
+    impedance_ = {r.resistance_ohm, r.end_inductance_h};
+    circuit_ = std::make_unique<WindingCircuit>(
+        case_.supply.connection, impedance_, case_.study.time_scheme,
+        case_.machine.stack_length_m * mesh_.symmetry.sectors);
+  }
   const int bars = case_.rotor.kind == RotorKind::cage ? case_.rotor.bars : 0;
   if (const std::string w = slot_passing_warning(grid_, case_.stator.slots, bars); !w.empty())
     fmt::print(stderr, "warning: {}\n", w);
@@ -105,6 +112,10 @@ int TransientStudy::open_results() {
           "steps/flux_linkage", "steps/emf", "steps/newton_iterations", "steps/airgap_B_r",
           "steps/airgap_B_theta", "steps/radial_force_density", "steps/A", "steps/B"})
       h5_->truncate_rows(d, static_cast<std::size_t>(done));
+    if (circuit_)
+      for (const char* d : {"steps/winding_voltage", "steps/line_current", "steps/line_voltage",
+                            "steps/supply_voltage"})
+        if (h5_->exists(d)) h5_->truncate_rows(d, static_cast<std::size_t>(done));
     steps_done_ = static_cast<int>(done);
     if (done > 0) {
       const std::vector<double> x = h5_->read("restart/x");
@@ -112,6 +123,18 @@ int TransientStudy::open_results() {
       const std::vector<double> psi = h5_->read("steps/flux_linkage");
       for (int k = 0; k < 3; ++k) psi_last_[k] = psi[(done - 1) * 3 + k];
       have_last_ = true;
+      if (circuit_) {
+        // The circuit's history: total linkages Λ = L_end·i + ψ of the last two steps.
+        const std::vector<double> i = h5_->read("steps/phase_current");
+        std::vector<Triple> history;
+        for (long n = done - 1; n >= std::max(0L, done - 2); --n) {
+          Triple l{};
+          for (int k = 0; k < 3; ++k)
+            l[k] = impedance_.end_inductance_h * i[n * 3 + k] + psi[n * 3 + k];
+          history.push_back(l);
+        }
+        circuit_->set_history(history);
+      }
     }
     for (int n = 0; n < done; ++n)
       if (n % case_.output.fields_every == 0)
@@ -132,6 +155,16 @@ int TransientStudy::open_results() {
   h5_->attribute("/", "rotor_currents",
                  std::string(case_.rotor_currents.bar_rms_a > 0 ? "imposed on the bars, not induced"
                                                                 : "none"));
+  h5_->attribute("/", "feed", std::string(case_.supply.voltage_fed() ? "voltage" : "current"));
+  if (circuit_) {
+    h5_->write("circuit/impedance", std::vector<double>{impedance_.resistance_ohm,
+                                                        impedance_.end_inductance_h},
+               "ohm, H");
+    h5_->attribute("circuit/impedance", "connection",
+                   std::string(to_string(case_.supply.connection)));
+    h5_->attribute("circuit/impedance", "time_scheme",
+                   std::string(to_string(case_.study.time_scheme)));
+  }
   write_mesh_datasets(*h5_, mesh_);
   h5_->flush();
   return 0;
@@ -144,7 +177,10 @@ void TransientStudy::step(int n) {
   // were measured on the saturated demo and needed more Newton iterations (15 and 17 per step
   // against 12): the saturated regions move, and extrapolated fields overshoot there.
   if (have_last_ && x_last_.size() == system.x().size()) system.warm_start(x_last_, shift_last_);
-  std::vector<double> j = region_current_density(coils_, supply_phase_currents_a(case_.supply, t));
+  // A current feed imposes the coil currents; a voltage feed leaves them to the circuit.
+  std::vector<double> j =
+      circuit_ ? std::vector<double>(mesh_.regions.size(), 0.0)
+               : region_current_density(coils_, supply_phase_currents_a(case_.supply, t));
   const std::vector<double> bars =
       bar_current_density(mesh_, case_, lamination_.winding, lamination_.bars, t, angle);
   for (std::size_t r = 0; r < j.size(); ++r) j[r] += bars[r];
@@ -153,7 +189,21 @@ void TransientStudy::step(int n) {
   settings.max_iterations = case_.solver.max_iterations;
   settings.residual_tolerance = case_.solver.residual_tolerance;
   settings.update_tolerance = case_.solver.update_tolerance;
-  const NewtonReport report = system.solve(model, settings);
+  std::array<double, 3> currents{0, 0, 0};
+  WindingCircuit::StepResult circuit_step;
+  NewtonReport report;
+  if (circuit_) {
+    const Eigen::MatrixXd coupling = coil_coupling(system.assembler(), coils_);
+    if (!have_last_) start_circuit(system, model, coupling);
+    const LowRankTerm term =
+        circuit_->step_term(coupling, branch_source_voltages_v(case_.supply, t), grid_.dt_s);
+    report = system.solve(model, settings, &term);
+    circuit_step = circuit_->finish_step(term, coupling, system.x(), grid_.dt_s);
+    currents = circuit_step.branch_current_a;
+  } else {
+    report = system.solve(model, settings);
+    currents = supply_phase_currents_a(case_.supply, t);
+  }
   newton_last_ = report.iterations;
   newton_total_ += report.iterations;
 
@@ -171,7 +221,6 @@ void TransientStudy::step(int n) {
   // Backward difference, consistent with the step sequence; the first step has no predecessor.
   if (have_last_)
     for (int k = 0; k < 3; ++k) emf[k] = (psi[k] - psi_last_[k]) / grid_.dt_s;
-  const auto currents = supply_phase_currents_a(case_.supply, t);
 
   // Append the step, then mark it done: a kill between the two loses only this step.
   h5_->append_row("steps/time", {t}, "s");
@@ -180,6 +229,16 @@ void TransientStudy::step(int n) {
   h5_->append_row("steps/phase_current", {currents.begin(), currents.end()}, "A");
   h5_->append_row("steps/flux_linkage", {psi.begin(), psi.end()}, "Wb");
   h5_->append_row("steps/emf", emf, "V");
+  if (circuit_) {
+    const auto& v = circuit_step.branch_voltage_v;
+    const auto line_i = line_currents_a(case_.supply.connection, currents);
+    const auto line_v = supply_line_voltages_v(case_.supply, t);
+    const auto phase_v = supply_phase_voltages_v(case_.supply, t);
+    h5_->append_row("steps/winding_voltage", {v.begin(), v.end()}, "V");
+    h5_->append_row("steps/line_current", {line_i.begin(), line_i.end()}, "A");
+    h5_->append_row("steps/line_voltage", {line_v.begin(), line_v.end()}, "V");
+    h5_->append_row("steps/supply_voltage", {phase_v.begin(), phase_v.end()}, "V");
+  }
   h5_->append_row("steps/newton_iterations", {double(report.iterations)}, "1");
   h5_->append_row("steps/airgap_B_r", s.b_r_tesla, "T");
   h5_->append_row("steps/airgap_B_theta", s.b_theta_tesla, "T");
@@ -213,6 +272,26 @@ void TransientStudy::step(int n) {
   psi_last_ = psi;
   have_last_ = true;
   steps_done_ = n + 1;
+}
+
+void TransientStudy::start_circuit(MagnetostaticSystem& system, const RegionModel& model,
+                                   const Eigen::MatrixXd& coupling) {
+  // Branch inductances of the unsaturated field (the tangent at A = 0): L = s·Cᵀ·J⁻¹·C.
+  const Eigen::VectorXd warm = system.x();
+  system.x().setZero();
+  const Eigen::MatrixXd response = system.solve_tangent(model, coupling);
+  system.x() = warm;
+  const double scale = case_.machine.stack_length_m * mesh_.symmetry.sectors;
+  Eigen::Matrix3d l = scale * (coupling.transpose() * response);
+  l = 0.5 * (l + l.transpose()).eval();
+  // The history the first step differences against: Λ of that steady state one and two steps
+  // before the start, so the start carries no DC flux that would take L/R to decay.
+  const double t0 = grid_.time(0), dt = grid_.dt_s;
+  const std::vector<Triple> history = steady_state_linkages(
+      case_.supply, case_.supply.connection, impedance_, l, case_.study.time_scheme, dt, t0,
+      {t0 - dt, t0 - 2.0 * dt});
+  circuit_->set_history(history);
+  h5_->write("circuit/start_inductance", std::vector<double>(l.data(), l.data() + 9), "H");
 }
 
 void TransientStudy::write_fields(int n, const MagnetostaticSystem& system,

@@ -18,6 +18,7 @@
 #include "postproc/run_analysis.hpp"
 #include "postproc/saturation.hpp"
 #include "postproc/summary.hpp"
+#include "solver/circuit.hpp"
 #include "solver/magnetostatic_system.hpp"
 #include "solver/time_grid.hpp"
 #include "solver/winding_sources.hpp"
@@ -38,6 +39,9 @@ class TransientStudy {
   void set_up();
   int open_results();  // returns the first step to compute
   void step(int n);
+  // A voltage feed: the start-up history from the linear steady state (before the first step).
+  void start_circuit(MagnetostaticSystem& system, const RegionModel& model,
+                     const Eigen::MatrixXd& coupling);
   void write_fields(int n, const MagnetostaticSystem& system, const ElementFields& fields);
   // Peak |B| and time over the threshold per triangle over the last period, written to
   // results.h5 (saturation/) and saturation.vtu.
@@ -56,6 +60,8 @@ class TransientStudy {
   int airgap_samples_ = 0;
   IronLoss iron_loss_;
   std::optional<SupplySpec> supply_override_;
+  std::unique_ptr<WindingCircuit> circuit_;  // voltage feed only
+  BranchImpedance impedance_;
   RunSummary summary_;
   std::unique_ptr<ResultsFile> h5_;
   Eigen::VectorXd x_last_;  // the last step's solution (warm start)

@@ -76,7 +76,7 @@ Row run_case(const std::string& name, const std::string& path, double refine) {
   const auto currents_at = [&](double t) {
     std::array<double, 3> i{};
     for (int k = 0; k < 3; ++k)
-      i[k] = std::sqrt(2.0) * c.supply.phases[k].rms_a *
+      i[k] = std::sqrt(2.0) * c.supply.phases[k].rms *
              std::cos(omega * t + c.supply.phases[k].angle_rad);
     return i;
   };
@@ -143,7 +143,7 @@ void run_stepping(const std::string& path, int steps) {
     remesh += seconds(t0);
     std::array<double, 3> i{};
     for (int k = 0; k < 3; ++k)
-      i[k] = std::sqrt(2.0) * c.supply.phases[k].rms_a *
+      i[k] = std::sqrt(2.0) * c.supply.phases[k].rms *
              std::cos(omega * t + c.supply.phases[k].angle_rad);
     std::vector<double> j = region_current_density(coils, i);
     const std::vector<double> bars = bar_current_density(mesh, c, lam.winding, lam.bars, t, angle);

@@ -185,6 +185,17 @@ WindingSpec parse_winding(TableReader t, int slots, int poles) {
   else
     t.know("end_winding_length_mm");
   w.conductor_temperature_c = number_in(t, "conductor_temperature_c", 75.0, -60.0, 300.0, "°C");
+  if (t.has("phase_resistance_ohm")) {
+    w.phase_resistance_ohm = number_in(t, "phase_resistance_ohm", {}, 0.0, 1e6, "Ω");
+    if (!(w.phase_resistance_ohm > 0.0))
+      throw t.error("phase_resistance_ohm",
+                    "must be greater than 0 Ω (leave it out to compute it from the winding)");
+  }
+  if (t.has("end_winding_inductance_mh"))
+    w.end_winding_inductance_h =
+        number_in(t, "end_winding_inductance_mh", {}, 0.0, 1e6, "mH") * 1e-3;
+  else
+    t.know("end_winding_inductance_mh");
   t.finish();
   return w;
 }
@@ -297,9 +308,14 @@ StudySpec parse_study(std::optional<TableReader> t) {
       not_applicable.emplace_back("speed_rpm", "a locked rotor does not turn");
     }
     s.band_aligned_steps = t->boolean("band_aligned_steps").value_or(false);
+    s.time_scheme = static_cast<TimeScheme>(
+        choice(*t, "time_scheme", {"backward_euler", "bdf2"}, std::size_t{1}));
+    s.steady_state_tolerance_pct =
+        number_in(*t, "steady_state_tolerance_pct", 0.5, 1e-6, 100.0, "%");
   } else {
     for (const char* k : {"steps_per_period", "periods", "discard_periods", "motion", "slip",
-                          "speed_rpm", "band_aligned_steps"})
+                          "speed_rpm", "band_aligned_steps", "time_scheme",
+                          "steady_state_tolerance_pct"})
       not_applicable.emplace_back(
           k, "a static study solves one instant; use kind = \"time_stepping\"");
   }
@@ -409,6 +425,20 @@ const char* to_string(BarClosure c) {
 }
 const char* to_string(Symmetry s) {
   return s == Symmetry::automatic ? "auto" : "full";
+}
+
+const char* to_string(Feed f) { return f == Feed::voltage ? "voltage" : "current"; }
+
+const char* to_string(Connection c) {
+  return c == Connection::star ? "star" : c == Connection::star_neutral ? "star_neutral" : "delta";
+}
+
+const char* to_string(VoltageBasis b) {
+  return b == VoltageBasis::phase ? "phase" : "line_to_line";
+}
+
+const char* to_string(TimeScheme s) {
+  return s == TimeScheme::bdf2 ? "bdf2" : "backward_euler";
 }
 
 }  // namespace gapflux

@@ -1,4 +1,4 @@
-// [supply] → SupplySpec. The fundamental comes one way only (balanced rms_a with per-phase
+// [supply] → SupplySpec. The fundamental comes one way only (balanced rms_a or rms_v with per-phase
 // overrides, or symmetrical components, or a measured table); harmonics add to the first two.
 #include "supply_reader.hpp"
 
@@ -16,14 +16,29 @@ namespace {
 using namespace value_checks;
 using cplx = std::complex<double>;
 
-const char* phase_names[3] = {"a", "b", "c"};
+// The words a supply is described in: RMS key and unit, and the names of its three phases.
+struct Terms {
+  const char* rms_key;  // "rms_a" or "rms_v"
+  const char* unit;     // "A" or "V"
+  const char* quantity;
+  std::array<const char*, 3> phase;
+};
 
-PhaseSpec parse_phase(TableReader t, std::optional<double> default_rms_a,
+Terms terms_of(const SupplySpec& s) {
+  if (!s.voltage_fed()) return {"rms_a", "A", "current", {"a", "b", "c"}};
+  if (s.voltage_basis == VoltageBasis::line_to_line)
+    return {"rms_v", "V", "line-to-line voltage", {"ab", "bc", "ca"}};
+  return {"rms_v", "V", "phase (line-to-neutral) voltage", {"a", "b", "c"}};
+}
+
+PhaseSpec parse_phase(TableReader t, const Terms& w, std::optional<double> default_rms,
                       double default_angle_deg) {
   PhaseSpec p;
-  if (!t.has("rms_a") && !default_rms_a)
-    throw t.missing("rms_a", "the phase's RMS current in A, or rms_a in [supply] for all phases");
-  p.rms_a = number_in(t, "rms_a", default_rms_a, 0.0, 1e6, "A");
+  if (!t.has(w.rms_key) && !default_rms)
+    throw t.missing(w.rms_key, fmt::format("the phase's RMS {} in {}, or {} in [supply] for all "
+                                           "phases",
+                                           w.quantity, w.unit, w.rms_key));
+  p.rms = number_in(t, w.rms_key, default_rms, 0.0, 1e7, w.unit);
   p.angle_rad = number_in(t, "angle_deg", default_angle_deg, -360.0, 360.0, "degrees") * deg;
   t.finish();
   return p;
@@ -33,24 +48,28 @@ PhaseSpec parse_phase(TableReader t, std::optional<double> default_rms_a,
 void phases_from_sequences(SupplySpec& s) {
   const cplx alpha = std::polar(1.0, 2.0 * std::numbers::pi / 3.0);
   cplx x[3];
-  for (int q = 0; q < 3; ++q) x[q] = std::polar(s.sequence[q].rms_a, s.sequence[q].angle_rad);
+  for (int q = 0; q < 3; ++q) x[q] = std::polar(s.sequence[q].rms, s.sequence[q].angle_rad);
   const cplx abc[3] = {x[0] + x[1] + x[2], x[0] + alpha * alpha * x[1] + alpha * x[2],
                        x[0] + alpha * x[1] + alpha * alpha * x[2]};
   for (int k = 0; k < 3; ++k) {
-    s.phases[k].rms_a = std::abs(abc[k]);
+    s.phases[k].rms = std::abs(abc[k]);
     s.phases[k].angle_rad = std::abs(abc[k]) > 0 ? std::arg(abc[k]) : 0.0;
   }
 }
 
-void parse_sequences(TableReader t, SupplySpec& s) {
+void parse_sequences(TableReader t, const Terms& w, SupplySpec& s) {
   const char* names[3] = {"zero", "positive", "negative"};
   for (int q = 0; q < 3; ++q) {
     auto part = t.table(names[q]);
     if (!part) {
-      if (q == 1) throw t.missing("positive", "the positive-sequence { rms_a, angle_deg }", true);
+      if (q == 1)
+        throw t.missing("positive",
+                        fmt::format("the positive-sequence {{ {}, angle_deg }}", w.rms_key), true);
       continue;
     }
-    s.sequence[q].rms_a = number_in(*part, "rms_a", std::nullopt, 0.0, 1e6, "A");
+    if (q == 0 && s.voltage_fed() && s.voltage_basis == VoltageBasis::line_to_line)
+      throw t.error("zero", "line-to-line voltages hold no zero sequence (they sum to zero)");
+    s.sequence[q].rms = number_in(*part, w.rms_key, std::nullopt, 0.0, 1e7, w.unit);
     s.sequence[q].angle_rad = number_in(*part, "angle_deg", 0.0, -360.0, 360.0, "degrees") * deg;
     part->finish();
   }
@@ -58,50 +77,77 @@ void parse_sequences(TableReader t, SupplySpec& s) {
   phases_from_sequences(s);
 }
 
-void parse_harmonics(std::vector<TableReader> tables, SupplySpec& s) {
+void parse_harmonics(std::vector<TableReader> tables, const Terms& w, SupplySpec& s) {
   for (TableReader& t : tables) {
-    CurrentComponent h;
+    SupplyComponent h;
     h.key_path = t.path();
     h.order = number_in(t, "order", std::nullopt, 0.0, 1000.0, "(multiples of the fundamental)");
     if (!(h.order > 0.0))
       throw t.error("order", "must be greater than 0 (a DC offset is not a harmonic)");
     if (std::abs(h.order - 1.0) < 1e-12)
-      throw t.error("order",
-                    "order 1 is the fundamental, set by rms_a, [supply.phases] or "
-                    "[supply.sequence]");
-    const bool percent = t.has("percent"), rms = t.has("rms_a");
+      throw t.error("order", fmt::format("order 1 is the fundamental, set by {}, [supply.phases] "
+                                         "or [supply.sequence]",
+                                         w.rms_key));
+    const bool percent = t.has("percent"), rms = t.has(w.rms_key);
     if (percent == rms)
-      throw percent ? t.error("rms_a", "give percent or rms_a, not both")
-                    : t.missing("percent", "percent (of the phase's fundamental RMS) or rms_a");
+      throw percent ? t.error(w.rms_key, fmt::format("give percent or {}, not both", w.rms_key))
+                    : t.missing("percent", fmt::format("percent (of the phase's fundamental RMS) "
+                                                       "or {}",
+                                                       w.rms_key));
     const double value = percent ? number_in(t, "percent", {}, 0.0, 1000.0, "%")
-                                 : number_in(t, "rms_a", {}, 0.0, 1e6, "A");
+                                 : number_in(t, w.rms_key, {}, 0.0, 1e7, w.unit);
     if (!percent) t.know("percent");
-    if (percent) t.know("rms_a");
+    if (percent) t.know(w.rms_key);
     const double angle_rad = number_in(t, "angle_deg", 0.0, -360.0, 360.0, "degrees") * deg;
-    const std::size_t which = choice(t, "phase", {"all", "a", "b", "c"}, std::size_t{0});
+    const std::size_t which =
+        choice(t, "phase", {"all", w.phase[0], w.phase[1], w.phase[2]}, std::size_t{0});
     t.finish();
     for (int k = 0; k < 3; ++k) {
       if (which != 0 && static_cast<int>(which) - 1 != k) continue;
-      h.rms_a[k] = percent ? value / 100.0 * s.phases[k].rms_a : value;
+      h.rms[k] = percent ? value / 100.0 * s.phases[k].rms : value;
       // The phase's waveform shifted as its fundamental is: angle + order·φ_k.
       h.angle_rad[k] = angle_rad + h.order * s.phases[k].angle_rad;
     }
-    for (const CurrentComponent& other : s.harmonics) {
+    for (const SupplyComponent& other : s.harmonics) {
       if (std::abs(other.order - h.order) > 1e-12) continue;
       for (int k = 0; k < 3; ++k)
-        if (other.rms_a[k] > 0 && h.rms_a[k] > 0)
+        if (other.rms[k] > 0 && h.rms[k] > 0)
           throw t.error("order", fmt::format("order {:g} is already given for phase {} in {}",
-                                             h.order, phase_names[k], other.key_path));
+                                             h.order, w.phase[k], other.key_path));
     }
     s.harmonics.push_back(h);
   }
+}
+
+// Feed, connection and voltage basis; the keys that do not apply to the feed are refused.
+void parse_feed(TableReader& t, SupplySpec& s) {
+  s.feed = static_cast<Feed>(choice(t, "feed", {"current", "voltage"}, std::size_t{0}));
+  if (!s.voltage_fed()) {
+    for (const char* key : {"connection", "voltages", "rms_v"})
+      if (t.has(key))
+        throw t.error(key, "applies to feed = \"voltage\" only (a current feed imposes the "
+                           "winding currents)");
+    return;
+  }
+  if (t.has("rms_a"))
+    throw t.error("rms_a", "a voltage feed takes rms_v (the currents follow from the field)");
+  s.connection = static_cast<Connection>(
+      choice(t, "connection", {"star", "star_neutral", "delta"}, std::size_t{0}));
+  s.voltage_basis = static_cast<VoltageBasis>(
+      choice(t, "voltages", {"phase", "line_to_line"},
+             s.connection == Connection::star_neutral ? std::size_t{0} : std::size_t{1}));
+  if (s.connection == Connection::star_neutral && s.voltage_basis == VoltageBasis::line_to_line)
+    throw t.error("voltages",
+                  "a star with its neutral connected needs the phase (line-to-neutral) voltages, "
+                  "zero sequence included: set voltages = \"phase\"");
 }
 
 }  // namespace
 
 SupplySpec parse_supply(TableReader t, const std::string& case_file) {
   SupplySpec s;
-  s.feed = static_cast<Feed>(choice(t, "feed", {"current"}, std::size_t{0}));
+  parse_feed(t, s);
+  const Terms w = terms_of(s);
   const bool has_waveform = t.has("waveform"), has_sequence = t.has("sequence");
   if (t.has("frequency_hz") || !has_waveform) {
     s.frequency_hz = number_in(t, "frequency_hz", 50.0, 0.0, 10000.0, "Hz");
@@ -110,10 +156,11 @@ SupplySpec parse_supply(TableReader t, const std::string& case_file) {
     t.know("frequency_hz");
   }
   if (has_waveform || has_sequence) {
-    const std::string why =
-        has_waveform ? "the measured table in [supply.waveform] already sets every phase current"
-                     : "[supply.sequence] already sets the fundamental";
-    for (const char* key : {"rms_a", "phases"})
+    const std::string why = has_waveform ? fmt::format("the measured table in [supply.waveform] "
+                                                       "already sets every phase {}",
+                                                       w.quantity)
+                                         : "[supply.sequence] already sets the fundamental";
+    for (const char* key : {w.rms_key, "phases"})
       if (t.has(key)) throw t.error(key, "does not apply here: " + why);
     if (has_waveform && has_sequence) throw t.error("sequence", "does not apply here: " + why);
     if (has_waveform && t.has("harmonics"))
@@ -122,56 +169,63 @@ SupplySpec parse_supply(TableReader t, const std::string& case_file) {
 
   if (has_waveform) {
     s.form = SupplyForm::waveform;
-    auto w = t.table("waveform");
-    const auto file = w->string("file");
+    auto table = t.table("waveform");
+    const auto file = table->string("file");
     if (!file || file->empty())
-      throw w->missing("file", "the path of a CSV: time_s, i_a, i_b, i_c");
-    w->finish();
+      throw table->missing("file", fmt::format("the path of a CSV: time_s, then the {} of {}, "
+                                               "{}, {}",
+                                               w.quantity, w.phase[0], w.phase[1], w.phase[2]));
+    table->finish();
     std::filesystem::path path(*file);
     if (path.is_relative()) path = std::filesystem::path(case_file).parent_path() / path;
     try {
-      s.waveform = read_waveform_csv(path.string(), w->key_path("file"));
+      s.waveform = read_waveform_csv(path.string(), table->key_path("file"));
     } catch (const std::runtime_error& e) {
       if (dynamic_cast<const InputError*>(&e)) throw;
-      throw w->error("file", e.what());
+      throw table->error("file", e.what());
     }
     if (!t.has("frequency_hz")) {
       try {
         s.frequency_hz = detect_fundamental_hz(s.waveform);
       } catch (const std::runtime_error& e) {
-        throw w->error("file", fmt::format("{}; give supply.frequency_hz", e.what()));
+        throw table->error("file", fmt::format("{}; give supply.frequency_hz", e.what()));
       }
       s.frequency_detected = true;
     }
-    t.know("rms_a"), t.know("phases"), t.know("sequence"), t.know("harmonics");
+    t.know(w.rms_key), t.know("phases"), t.know("sequence"), t.know("harmonics");
     t.finish();
     return s;
   }
 
   if (has_sequence) {
     s.form = SupplyForm::sequence;
-    parse_sequences(*t.table("sequence"), s);
-    t.know("rms_a"), t.know("phases");
+    parse_sequences(*t.table("sequence"), w, s);
+    t.know(w.rms_key), t.know("phases");
   } else {
     s.form = SupplyForm::phases;
-    const auto balanced = t.number("rms_a");
-    if (balanced) s.rms_a = number_in(t, "rms_a", {}, 0.0, 1e6, "A");
+    const auto balanced = t.number(w.rms_key);
+    if (balanced) s.rms = number_in(t, w.rms_key, {}, 0.0, 1e7, w.unit);
     auto phases = t.table("phases");
-    const double default_angle_deg[3] = {0.0, -120.0, -240.0};
+    // Line-to-line voltages of a positive-sequence set lead their phase voltages by 30°.
+    const bool line = s.voltage_fed() && s.voltage_basis == VoltageBasis::line_to_line;
+    const double default_angle_deg[3] = {line ? 30.0 : 0.0, line ? -90.0 : -120.0,
+                                         line ? -210.0 : -240.0};
     for (int k = 0; k < 3; ++k) {
-      std::optional<TableReader> p = phases ? phases->table(phase_names[k]) : std::nullopt;
+      std::optional<TableReader> p = phases ? phases->table(w.phase[k]) : std::nullopt;
       if (!p && !balanced)
-        throw t.missing("rms_a",
-                        "rms_a (balanced RMS phase current in A), [supply.phases.a/b/c] with "
-                        "rms_a each, [supply.sequence] or [supply.waveform]");
-      s.phases[k] = p ? parse_phase(*p, balanced ? std::optional(s.rms_a) : std::nullopt,
+        throw t.missing(w.rms_key,
+                        fmt::format("{} (balanced RMS {} in {}), [supply.phases.{}/{}/{}] with "
+                                    "{} each, [supply.sequence] or [supply.waveform]",
+                                    w.rms_key, w.quantity, w.unit, w.phase[0], w.phase[1],
+                                    w.phase[2], w.rms_key));
+      s.phases[k] = p ? parse_phase(*p, w, balanced ? std::optional(s.rms) : std::nullopt,
                                     default_angle_deg[k])
-                      : PhaseSpec{s.rms_a, default_angle_deg[k] * deg};
+                      : PhaseSpec{s.rms, default_angle_deg[k] * deg};
     }
     if (phases) phases->finish();
     t.know("sequence");
   }
-  parse_harmonics(t.table_array("harmonics"), s);
+  parse_harmonics(t.table_array("harmonics"), w, s);
   t.know("waveform");
   t.finish();
   return s;

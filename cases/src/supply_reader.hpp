@@ -1,6 +1,7 @@
 #pragma once
-// [supply]: the current set the winding carries, as per-phase magnitudes and angles, as
-// symmetrical components, with harmonics, or as a measured waveform table.
+// [supply]: the current set the winding carries, or the voltage set its terminals see (with the
+// winding's connection), as per-phase magnitudes and angles, as symmetrical components, with
+// harmonics, or as a measured waveform table.
 #include <string>
 
 #include "cases/case.hpp"
@@ -11,7 +12,7 @@ namespace gapflux {
 // `case_file` locates a waveform table given by a relative path.
 SupplySpec parse_supply(TableReader t, const std::string& case_file);
 
-// Reads a CSV of time_s, i_a, i_b, i_c (header line and '#' comments allowed); errors name the
+// Reads a CSV of time_s and three phase values (header line and '#' comments allowed); errors name the
 // CSV's own line. `key_path` is the case key that named the file.
 WaveformTable read_waveform_csv(const std::string& path, const std::string& key_path);
 

@@ -1,4 +1,4 @@
-// Measured phase currents from a CSV, and the fundamental frequency they hold.
+// A measured three-phase record (currents or voltages) from a CSV, and its fundamental frequency.
 #include <fmt/format.h>
 
 #include <charconv>
@@ -53,7 +53,7 @@ WaveformTable read_waveform_csv(const std::string& path, const std::string& key_
       }
       throw InputError(
           path, {line_no, 1}, key_path,
-          fmt::format("expected 4 numbers (time_s, i_a, i_b, i_c), found \"{}\"", trim(line)));
+          fmt::format("expected 4 numbers (time_s and the three phase values), found \"{}\"", trim(line)));
     }
     seen_data_line = true;
     if (!w.time_s.empty() && !(v[0] > w.time_s.back()))
@@ -61,7 +61,7 @@ WaveformTable read_waveform_csv(const std::string& path, const std::string& key_
           path, {line_no, 1}, key_path,
           fmt::format("time {} s does not increase (previous row {} s)", v[0], w.time_s.back()));
     w.time_s.push_back(v[0]);
-    for (int k = 0; k < 3; ++k) w.current_a[k].push_back(v[k + 1]);
+    for (int k = 0; k < 3; ++k) w.values[k].push_back(v[k + 1]);
   }
   if (w.time_s.size() < 8)
     throw InputError(path, {line_no, 1}, key_path,
@@ -77,16 +77,16 @@ double detect_fundamental_hz(const WaveformTable& w) {
   double best_rms = -1, best_mean = 0;
   for (int k = 0; k < 3; ++k) {
     double mean = 0, sq = 0;
-    for (double x : w.current_a[k]) mean += x;
+    for (double x : w.values[k]) mean += x;
     mean /= n;
-    for (double x : w.current_a[k]) sq += (x - mean) * (x - mean);
+    for (double x : w.values[k]) sq += (x - mean) * (x - mean);
     if (sq > best_rms) best = k, best_rms = sq, best_mean = mean;
   }
   best_rms = std::sqrt(best_rms / n);
   if (!(best_rms > 0))
-    throw std::runtime_error("the waveform table carries no alternating current");
+    throw std::runtime_error("the waveform table carries no alternating quantity");
   // Coarse: rising crossings with hysteresis, so ripple near zero does not count.
-  const std::vector<double>& x = w.current_a[best];
+  const std::vector<double>& x = w.values[best];
   const double threshold = 0.5 * best_rms;
   std::vector<double> rising;
   bool below = x[0] - best_mean < -threshold;

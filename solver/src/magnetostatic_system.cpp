@@ -30,8 +30,20 @@ void MagnetostaticSystem::warm_start(const Eigen::VectorXd& previous, int previo
   }
 }
 
-NewtonReport MagnetostaticSystem::solve(const RegionModel& model, const NewtonSettings& settings) {
-  return solve_newton(*assembler_, cholesky_, model, settings, x_);
+NewtonReport MagnetostaticSystem::solve(const RegionModel& model, const NewtonSettings& settings,
+                                        const LowRankTerm* low_rank) {
+  return solve_newton(*assembler_, cholesky_, model, settings, x_, low_rank);
+}
+
+Eigen::MatrixXd MagnetostaticSystem::solve_tangent(const RegionModel& model,
+                                                   const Eigen::MatrixXd& rhs) {
+  cholesky_.analyze(assembler_->n_dofs(), assembler_->column_starts(), assembler_->row_indices());
+  assembler_->assemble(x_, model, true);
+  if (cholesky_.factorize(assembler_->values()).status != FactorStatus::ok)
+    throw NumericalError("the linearised field matrix could not be factorised", NewtonReport{});
+  Eigen::MatrixXd out(rhs.rows(), rhs.cols());
+  for (long k = 0; k < rhs.cols(); ++k) cholesky_.solve(rhs.col(k).data(), out.col(k).data());
+  return out;
 }
 
 }  // namespace gapflux

@@ -25,7 +25,7 @@ void check_waveform_covers(const Case& c, double first, double last, double dt_s
 
 }  // namespace
 
-std::array<double, 3> supply_phase_currents_a(const SupplySpec& supply, double t_s) {
+std::array<double, 3> supply_values(const SupplySpec& supply, double t_s) {
   std::array<double, 3> i{0, 0, 0};
   if (supply.form == SupplyForm::waveform) {
     const auto& w = supply.waveform;
@@ -33,15 +33,15 @@ std::array<double, 3> supply_phase_currents_a(const SupplySpec& supply, double t
     std::size_t hi = std::clamp<std::size_t>(it - w.time_s.begin(), 1, w.time_s.size() - 1);
     const std::size_t lo = hi - 1;
     const double u = (t_s - w.time_s[lo]) / (w.time_s[hi] - w.time_s[lo]);
-    for (int k = 0; k < 3; ++k) i[k] = (1.0 - u) * w.current_a[k][lo] + u * w.current_a[k][hi];
+    for (int k = 0; k < 3; ++k) i[k] = (1.0 - u) * w.values[k][lo] + u * w.values[k][hi];
     return i;
   }
   const double omega = 2.0 * std::numbers::pi * supply.frequency_hz;
   for (int k = 0; k < 3; ++k) {
-    i[k] = std::sqrt(2.0) * supply.phases[k].rms_a *
+    i[k] = std::sqrt(2.0) * supply.phases[k].rms *
            std::cos(omega * t_s + supply.phases[k].angle_rad);
-    for (const CurrentComponent& h : supply.harmonics)
-      i[k] += std::sqrt(2.0) * h.rms_a[k] * std::cos(h.order * omega * t_s + h.angle_rad[k]);
+    for (const SupplyComponent& h : supply.harmonics)
+      i[k] += std::sqrt(2.0) * h.rms[k] * std::cos(h.order * omega * t_s + h.angle_rad[k]);
   }
   return i;
 }
@@ -49,7 +49,7 @@ std::array<double, 3> supply_phase_currents_a(const SupplySpec& supply, double t
 void check_supply_on_grid(const Case& c, const TimeGrid& grid) {
   const SupplySpec& s = c.supply;
   const int periods = grid.analysis_periods();
-  for (const CurrentComponent& h : s.harmonics) {
+  for (const SupplyComponent& h : s.harmonics) {
     if (h.order >= 0.5 * grid.steps_per_period)
       throw c.sources.error(
           h.key_path + ".order",

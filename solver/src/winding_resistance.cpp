@@ -23,6 +23,19 @@ WindingResistance phase_resistance(const Case& c, const Lamination& lam, const M
   const double sigma = copper.conductivity_at(r.temperature_c);
   r.resistance_ohm =
       w.series_turns_per_phase * r.turn_length_m / (w.parallel_paths * sigma * r.conductor_area_m2);
+  if (c.winding.phase_resistance_ohm > 0) {
+    r.resistance_ohm = c.winding.phase_resistance_ohm;
+    r.resistance_given = true;
+  }
+  if (c.winding.end_winding_inductance_h >= 0) {
+    r.end_inductance_h = c.winding.end_winding_inductance_h;
+  } else {
+    constexpr double mu0 = 4e-7 * std::numbers::pi, permeance_factor = 0.3;
+    const double n = w.series_turns_per_phase;
+    r.end_inductance_h = 4.0 * 3.0 / w.slots * mu0 * n * n * 2.0 * r.end_winding_length_m *
+                         permeance_factor;
+    r.end_inductance_estimated = true;
+  }
   return r;
 }
 

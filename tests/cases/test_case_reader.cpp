@@ -27,7 +27,7 @@ TEST_CASE("demo case reads with SI units and documented defaults", "[cases]") {
   // Balanced phases by default: b lags a by 120°, c by 240° (design.md §4).
   CHECK(c.supply.phases[1].angle_rad == Approx(-2.0 * std::numbers::pi / 3.0));
   CHECK(c.supply.phases[2].angle_rad == Approx(-4.0 * std::numbers::pi / 3.0));
-  CHECK(c.supply.phases[2].rms_a == Approx(6.5));
+  CHECK(c.supply.phases[2].rms == Approx(6.5));
   CHECK(c.mesh.band_nodes == 2016);
   CHECK(c.mesh.growth_rate == Approx(0.2));
 }
@@ -59,8 +59,8 @@ TEST_CASE("per-phase supply overrides keep the other phases balanced", "[cases]"
   const std::string text = test::read_text(test::example("pump_4p36s.toml")) +
                            "\n[supply.phases]\nb = { rms_a = 23.1 }\nc = { angle_deg = -235.0 }\n";
   const Case c = read_case_text(text, "inline.toml");
-  CHECK(c.supply.phases[0].rms_a == Approx(6.5));
-  CHECK(c.supply.phases[1].rms_a == Approx(23.1));
+  CHECK(c.supply.phases[0].rms == Approx(6.5));
+  CHECK(c.supply.phases[1].rms == Approx(23.1));
   CHECK(c.supply.phases[1].angle_rad == Approx(-2.0 * std::numbers::pi / 3.0));
   CHECK(c.supply.phases[2].angle_rad == Approx(-235.0 * std::numbers::pi / 180.0));
 }
@@ -84,7 +84,7 @@ std::string with_supply(const std::string& supply) {
 constexpr double deg = std::numbers::pi / 180.0;
 
 std::complex<double> phasor(const PhaseSpec& p) {
-  return std::polar(p.rms_a, p.angle_rad);
+  return std::polar(p.rms, p.angle_rad);
 }
 
 }  // namespace
@@ -115,17 +115,17 @@ TEST_CASE("harmonics follow each phase's timing, so their sequence comes from th
                   "[[supply.harmonics]]\norder = 2.5\nrms_a = 0.2\nphase = \"c\"\n"),
       "inline.toml");
   REQUIRE(c.supply.harmonics.size() == 2);
-  const CurrentComponent& h5 = c.supply.harmonics[0];
+  const SupplyComponent& h5 = c.supply.harmonics[0];
   CHECK(h5.order == 5.0);
-  CHECK(h5.rms_a[0] == Approx(0.4));
-  CHECK(h5.rms_a[1] == Approx(0.32));  // 4 % of phase b's own 8 A
+  CHECK(h5.rms[0] == Approx(0.4));
+  CHECK(h5.rms[1] == Approx(0.32));  // 4 % of phase b's own 8 A
   // angle + 5·φ_k: phase b at 10° + 5·(−120°) = −590° ≡ +130°: it leads a by 120°, so the set is
   // negative sequence without a rule saying so.
   CHECK(std::remainder(h5.angle_rad[1] - (10.0 - 600.0) * deg, 2 * std::numbers::pi) ==
         Approx(0.0).margin(1e-12));
-  const CurrentComponent& inter = c.supply.harmonics[1];
-  CHECK(inter.rms_a[0] == 0.0);
-  CHECK(inter.rms_a[2] == Approx(0.2));
+  const SupplyComponent& inter = c.supply.harmonics[1];
+  CHECK(inter.rms[0] == 0.0);
+  CHECK(inter.rms[2] == Approx(0.2));
   // The currents the solver sees: i_a(0) = √2·(10 + 0.4·cos 10°).
   const auto i = supply_phase_currents_a(c.supply, 0.0);
   CHECK(i[0] == Approx(std::sqrt(2.0) * (10.0 + 0.4 * std::cos(10 * deg))).epsilon(1e-12));

@@ -82,6 +82,8 @@ struct WindingSpec {
   double end_winding_length_m =
       0.0;  // one turn's end connection at one end; 0: estimated (winding_resistance)
   double conductor_temperature_c = 75.0;
+  double phase_resistance_ohm = 0.0;        // 0: from the winding's geometry
+  double end_winding_inductance_h = -1.0;   // per phase; < 0: estimated (winding_resistance)
 };
 
 enum class MaterialKind { air, conductor, steel };
@@ -110,44 +112,57 @@ struct MaterialsSpec {
   std::vector<MaterialDefinition> definitions;
 };
 
-enum class Feed { current };
+// What the supply imposes on the winding: its currents, or its voltages (the currents then
+// follow from the field–circuit equations of design.md §3).
+enum class Feed { current, voltage };
+// How the three windings meet the lines (voltage feed): star with an isolated neutral, star
+// with the neutral connected to the source's, or delta (winding a between lines a and b, b
+// between b and c, c between c and a).
+enum class Connection { star, star_neutral, delta };
+// Whether the voltages given are line-to-neutral (phase) or line-to-line (ab, bc, ca).
+enum class VoltageBasis { phase, line_to_line };
 
+// The fundamental of one phase: RMS in A (current feed) or V (voltage feed), and its angle.
 struct PhaseSpec {
-  double rms_a = 0.0;
+  double rms = 0.0;
   double angle_rad = 0.0;
 };
 
 enum class SupplyForm { phases, sequence, waveform };
 
-// One time-harmonic component of the phase currents beyond the fundamental, resolved per phase:
-// i_k(t) ⊃ √2·rms_a[k]·cos(order·ω·t + angle_rad[k]). Orders may be non-integer
+// One time-harmonic component of the supply beyond the fundamental, resolved per phase:
+// x_k(t) ⊃ √2·rms[k]·cos(order·ω·t + angle_rad[k]) in A or V. Orders may be non-integer
 // (interharmonics). A component given for all phases follows each phase's fundamental timing
 // (angle_k = angle + order·φ_k), so its sequence follows from the angles, not from a rule.
-struct CurrentComponent {
+struct SupplyComponent {
   double order = 1.0;
-  std::array<double, 3> rms_a{0, 0, 0};
+  std::array<double, 3> rms{0, 0, 0};
   std::array<double, 3> angle_rad{0, 0, 0};
   std::string key_path;  // "supply.harmonics[i]", for checks made after parsing
 };
 
-// Measured phase currents (CSV: time, i_a, i_b, i_c), used as given and interpolated linearly
-// onto the time steps.
+// A measured three-phase record (CSV: time, then three phase currents or voltages), used as
+// given and interpolated linearly onto the time steps.
 struct WaveformTable {
   std::string file;  // as resolved against the case file's folder
   std::vector<double> time_s;
-  std::array<std::vector<double>, 3> current_a;
+  std::array<std::vector<double>, 3> values;  // A or V
 };
 
 struct SupplySpec {
   Feed feed = Feed::current;
+  Connection connection = Connection::star;         // voltage feed
+  VoltageBasis voltage_basis = VoltageBasis::phase;  // voltage feed
   double frequency_hz = 50.0;
   bool frequency_detected = false;  // true: taken from the waveform table, not the case
   SupplyForm form = SupplyForm::phases;
-  double rms_a = 0.0;     // balanced RMS phase current, when given
-  PhaseSpec phases[3];    // fundamental of a, b, c (from rms_a/phases or from the sequences)
+  double rms = 0.0;       // balanced RMS of each phase (A or V; line-to-line if so given)
+  PhaseSpec phases[3];    // fundamental of a, b, c or ab, bc, ca (as given or from sequences)
   PhaseSpec sequence[3];  // zero, positive, negative as given (form == sequence)
-  std::vector<CurrentComponent> harmonics;
+  std::vector<SupplyComponent> harmonics;
   WaveformTable waveform;  // form == waveform
+  bool voltage_fed() const { return feed == Feed::voltage; }
+  const char* unit() const { return voltage_fed() ? "V" : "A"; }
 };
 
 enum class Symmetry { automatic, full };
@@ -161,6 +176,9 @@ struct MeshSpec {
   Symmetry symmetry = Symmetry::automatic;
 };
 
+// Discretisation of d/dt in the circuit equations: backward Euler (first order) or the
+// two-step backward difference formula (second order).
+enum class TimeScheme { backward_euler, bdf2 };
 enum class StudyKind { static_field, time_stepping };
 enum class Motion { slip, speed, locked };
 
@@ -176,6 +194,8 @@ struct StudySpec {
   double slip = 0.0;
   double speed_rpm = 0.0;
   bool band_aligned_steps = false;  // pick the step count so the rotor moves whole band pitches
+  TimeScheme time_scheme = TimeScheme::bdf2;  // voltage feed: the circuit equations' d/dt
+  double steady_state_tolerance_pct = 0.5;    // per-period change of the flux-linkage phasors
 };
 
 // Currents imposed on the cage bars (not induced): a balanced set at slip frequency.
@@ -220,5 +240,9 @@ const char* to_string(RotorKind);
 const char* to_string(BarShape);
 const char* to_string(BarClosure);
 const char* to_string(Symmetry);
+const char* to_string(Feed);
+const char* to_string(Connection);
+const char* to_string(VoltageBasis);
+const char* to_string(TimeScheme);
 
 }  // namespace gapflux

@@ -22,7 +22,11 @@ class MagnetostaticSystem {
   // mid-edge DOFs belong to other edges and are set to the mean of their edge's ends.
   void warm_start(const Eigen::VectorXd& previous, int previous_shift);
   // Throws NumericalError; x() keeps the last iterate either way.
-  NewtonReport solve(const RegionModel& model, const NewtonSettings& settings);
+  NewtonReport solve(const RegionModel& model, const NewtonSettings& settings,
+                     const LowRankTerm* low_rank = nullptr);
+  // The tangent at x() solved for each column of `rhs` (one factorisation): the linearised
+  // field's response, e.g. the unsaturated inductances at x() = 0. Throws NumericalError.
+  Eigen::MatrixXd solve_tangent(const RegionModel& model, const Eigen::MatrixXd& rhs);
 
   const Mesh& mesh() const { return mesh_; }
   const BandMesh& band() const { return band_; }

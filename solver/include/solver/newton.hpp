@@ -20,6 +20,18 @@ struct NewtonSettings {
   int max_halvings = 10;
 };
 
+// A term B·(M·Bᵀx − w) added to the residual and B·M·Bᵀ to the Jacobian, with M symmetric
+// positive definite and B of few columns: how eliminated circuit equations enter the field
+// problem (circuit.hpp). The step solves with the factor of J by the Woodbury identity:
+// (J + BMBᵀ)⁻¹r = J⁻¹r − Y·(M⁻¹ + BᵀY)⁻¹·BᵀJ⁻¹r, Y = J⁻¹B.
+struct LowRankTerm {
+  Eigen::MatrixXd b;  // n × m
+  Eigen::MatrixXd m;  // m × m
+  Eigen::VectorXd w;  // m
+  // The loop currents the term stands for at x: w − M·Bᵀx.
+  Eigen::VectorXd currents(const Eigen::VectorXd& x) const { return w - m * (b.transpose() * x); }
+};
+
 struct NewtonIteration {
   int iteration = 0;
   double relative_residual = 0.0;  // at the start of the iteration
@@ -50,8 +62,11 @@ class NumericalError : public std::runtime_error {
 
 // Solves starting from x (warm start); leaves the last iterate in x. Throws NumericalError on a
 // non-positive pivot, a singular matrix or no convergence.
+// With `low_rank`, its term joins the residual and the Jacobian, and the coil load B·i it stands
+// for joins the reference of the relative residual.
 NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const RegionModel& model,
-                          const NewtonSettings& settings, Eigen::VectorXd& x);
+                          const NewtonSettings& settings, Eigen::VectorXd& x,
+                          const LowRankTerm* low_rank = nullptr);
 
 // Elements with the largest |B| at the centroid, for diagnostics.
 std::vector<std::pair<std::size_t, double>> worst_elements(const Assembler& assembler,

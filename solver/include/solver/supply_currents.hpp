@@ -8,7 +8,12 @@
 
 namespace gapflux {
 
-std::array<double, 3> supply_phase_currents_a(const SupplySpec& supply, double t_s);
+// The described three-phase set at t, in its own unit and basis (A for a current feed; V, phase
+// or line-to-line as given, for a voltage feed).
+std::array<double, 3> supply_values(const SupplySpec& supply, double t_s);
+inline std::array<double, 3> supply_phase_currents_a(const SupplySpec& supply, double t_s) {
+  return supply_values(supply, t_s);
+}
 
 // Checks that need the time steps (throw InputError at the offending key): every harmonic below
 // half the steps per period (else it aliases) and completing whole periods in the analysis

@@ -16,8 +16,16 @@ struct WindingResistance {
   double turn_length_m = 0.0;
   double temperature_c = 0.0;
   double resistance_ohm = 0.0;  // per phase
+  bool resistance_given = false;
+  double end_inductance_h = 0.0;  // end-winding leakage per phase
+  bool end_inductance_estimated = false;
 };
 
+// A case's phase_resistance_ohm replaces the computed value. Without a case value the end-winding
+// leakage inductance is estimated as L_end = (4m/Q)·μ0·N²·(2·l_end)·λ_end with m = 3 phases,
+// N series turns per phase, l_end the end connection per end and a permeance factor
+// λ_end = 0.3 (the form of Pyrhönen, Jokinen, Hrabovcová, Design of Rotating Electrical
+// Machines, ch. 4; factor from memory): a rough figure, to be replaced by the maker's.
 // Without a case value the end-winding length per end is estimated as 1.3 × the coil span's arc
 // at the slots' mid radius plus 2 × 10 mm of straight overhang (a rough estimate for random-wound
 // coils, from memory).
