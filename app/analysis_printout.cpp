@@ -16,6 +16,26 @@ void print_analysis_table(std::FILE* out, const RunAnalysis& a, double torque_me
   }
   fmt::print(out, "\nsupply response over {} electrical period(s) from t = {:.6g} s\n", a.periods,
              a.window_start_s);
+  if (!a.supply_voltage.empty()) {
+    const auto& v = a.voltage_unbalance;
+    fmt::print(out, "  supply voltage unbalance: VUF {:.3f} %  LVUR {:.3f} %  PVUR {:.3f} %\n",
+               v.vuf_pct, v.lvur_pct, v.pvur_pct);
+    const auto& l = a.line_current_unbalance;
+    fmt::print(out, "  line current unbalance:   VUF {:.3f} %  LVUR {:.3f} %  PVUR {:.3f} %\n",
+               l.vuf_pct, l.lvur_pct, l.pvur_pct);
+    fmt::print(out, "  {:>7}  {:>10} {:>10} {:>10}   {:>10} {:>10} {:>10}\n", "order",
+               "|Va| V", "|Vb| V", "|Vc| V", "pos V", "neg V", "zero V");
+    int shown = 0;
+    for (const HarmonicPhasors& h : a.supply_voltage) {
+      if (++shown > 6) break;
+      fmt::print(out,
+                 "  {:>7.3g}  {:>10.4g} {:>10.4g} {:>10.4g}   {:>10.4g} {:>10.4g} {:>10.4g}\n",
+                 h.order, std::abs(h.abc[0]), std::abs(h.abc[1]), std::abs(h.abc[2]),
+                 std::abs(h.sequences.positive), std::abs(h.sequences.negative),
+                 std::abs(h.sequences.zero));
+    }
+    fmt::print(out, "  winding (branch) currents:\n");
+  }
   const auto& u = a.current_unbalance;
   fmt::print(out, "  current unbalance: VUF {:.3f} %  LVUR {:.3f} %  PVUR {:.3f} %\n", u.vuf_pct,
              u.lvur_pct, u.pvur_pct);

@@ -397,6 +397,18 @@ RunRecord TransientStudy::read_record(int done) const {
       r.flux_linkage_wb[k].push_back(psi[n * 3 + k]);
     }
   r.torque_nm = h5_->read("steps/torque");
+  if (circuit_) {
+    r.voltage_fed = true;
+    const auto rows = [&](const char* name, std::array<std::vector<double>, 3>& out) {
+      const std::vector<double> v = h5_->read(name);
+      for (int n = 0; n < done; ++n)
+        for (int k = 0; k < 3; ++k) out[k].push_back(v[n * 3 + k]);
+    };
+    rows("steps/supply_voltage", r.supply_voltage_v);
+    rows("steps/line_voltage", r.line_voltage_v);
+    rows("steps/line_current", r.line_current_a);
+    rows("steps/winding_voltage", r.winding_voltage_v);
+  }
   const std::vector<double> b = h5_->read("steps/airgap_B_r");
   const std::vector<double> theta = h5_->read("airgap/theta");
   const std::size_t per_sector = theta.size();
@@ -461,7 +473,20 @@ void TransientStudy::finish(const std::string& failure) {
   s.wall_s = now_s() - wall_start_s_;
   // What the supply did, over the last whole periods; written even after a failure, from the
   // steps that finished.
-  s.analysis = analyse_run(read_record(done));
+  const RunRecord record = read_record(done);
+  s.analysis = analyse_run(record);
+  s.steady_state = steady_state_indicator(record, case_.study.steady_state_tolerance_pct);
+  if (circuit_) {
+    s.voltage_fed = true;
+    s.connection = to_string(case_.supply.connection);
+    s.voltage_basis = to_string(case_.supply.voltage_basis);
+    s.time_scheme = to_string(case_.study.time_scheme);
+    const WindingResistance r = phase_resistance(case_, lamination_, materials_.coils);
+    s.phase_resistance_ohm = r.resistance_ohm;
+    s.resistance_given = r.resistance_given;
+    s.end_inductance_h = r.end_inductance_h;
+    s.end_inductance_estimated = r.end_inductance_estimated;
+  }
   write_analysis(*h5_, *s.analysis);
   if (s.analysis->periods >= 1) {
     s.saturation = saturation_over_last_period(done);
@@ -502,6 +527,15 @@ void TransientStudy::finish(const std::string& failure) {
         s.torque_ripple_pct);
   if (s.bar_rms_a > 0)
     fmt::print("rotor bar currents: {:.1f} A RMS imposed (not induced)\n", s.bar_rms_a);
+  if (circuit_)
+    fmt::print("voltage feed, {} connection, {}: R = {:.4g} Ω{}, L_end = {:.4g} mH{} per branch\n",
+               s.connection, s.time_scheme, s.phase_resistance_ohm,
+               s.resistance_given ? " (given)" : "", s.end_inductance_h * 1e3,
+               s.end_inductance_estimated ? " (estimated)" : " (given)");
+  if (s.steady_state && !s.steady_state->change_pct.empty())
+    fmt::print("steady state: last period's flux-linkage change {:.3g} % ({} the {:g} % tolerance)\n",
+               s.steady_state->change_pct.back(), s.steady_state->reached ? "within" : "NOT within",
+               s.steady_state->tolerance_pct);
   print_analysis_table(stdout, *s.analysis, s.torque_mean_nm, s.torque_ripple_pct);
   if (s.saturation) print_saturation_table(stdout, *s.saturation);
   if (s.losses_available)

@@ -106,6 +106,20 @@ RunAnalysis analyse_run(const RunRecord& r) {
   }
   if (const HarmonicPhasors* f = find_order(a.current, 1.0))
     a.current_unbalance = unbalance_metrics(f->abc);
+  if (r.voltage_fed) {
+    const auto harmonics = [&](const std::array<std::vector<double>, 3>& series) {
+      return three_phase_harmonics(window(series, r.first_step, count), r.periods,
+                                   a.window_start_s, r.frequency_hz, floor);
+    };
+    a.supply_voltage = harmonics(r.supply_voltage_v);
+    a.line_voltage = harmonics(r.line_voltage_v);
+    a.line_current = harmonics(r.line_current_a);
+    a.winding_voltage = harmonics(r.winding_voltage_v);
+    if (const HarmonicPhasors* f = find_order(a.supply_voltage, 1.0))
+      a.voltage_unbalance = unbalance_metrics(f->abc);
+    if (const HarmonicPhasors* f = find_order(a.line_current, 1.0))
+      a.line_current_unbalance = unbalance_metrics(f->abc);
+  }
 
   // Mean space spectrum over the window, labelled.
   std::vector<double> mean(static_cast<std::size_t>(a.space_orders), 0.0);
@@ -150,6 +164,32 @@ RunAnalysis analyse_run(const RunRecord& r) {
   return a;
 }
 
+SteadyStateIndicator steady_state_indicator(const RunRecord& r, double tolerance_pct) {
+  SteadyStateIndicator s;
+  s.tolerance_pct = tolerance_pct;
+  const int spp = r.steps_per_period;
+  const int periods = spp > 0 ? static_cast<int>(r.flux_linkage_wb[0].size()) / spp : 0;
+  std::vector<std::array<Phasor, 3>> phasors;
+  for (int q = 0; q < periods; ++q) {
+    std::array<Phasor, 3> x{};
+    for (int k = 0; k < 3; ++k)
+      for (int n = 0; n < spp; ++n)
+        x[k] += r.flux_linkage_wb[k][q * spp + n] *
+                std::polar(2.0 / spp, -2.0 * std::numbers::pi * n / spp);
+    phasors.push_back(x);
+  }
+  for (int q = 1; q < periods; ++q) {
+    double change = 0.0, size = 0.0;
+    for (int k = 0; k < 3; ++k) {
+      change = std::max(change, std::abs(phasors[q][k] - phasors[q - 1][k]));
+      size = std::max(size, std::abs(phasors[q][k]));
+    }
+    s.change_pct.push_back(size > 0 ? 100.0 * change / size : 0.0);
+  }
+  s.reached = !s.change_pct.empty() && s.change_pct.back() < tolerance_pct;
+  return s;
+}
+
 namespace {
 
 void write_harmonics(ResultsFile& f, const std::string& group,
@@ -186,6 +226,18 @@ void write_analysis(ResultsFile& f, const RunAnalysis& a) {
   f.attribute("analysis/current", "vuf_pct", a.current_unbalance.vuf_pct);
   f.attribute("analysis/current", "lvur_pct", a.current_unbalance.lvur_pct);
   f.attribute("analysis/current", "pvur_pct", a.current_unbalance.pvur_pct);
+  if (!a.supply_voltage.empty()) {
+    write_harmonics(f, "analysis/supply_voltage", a.supply_voltage, "V");
+    write_harmonics(f, "analysis/line_voltage", a.line_voltage, "V");
+    write_harmonics(f, "analysis/line_current", a.line_current, "A");
+    write_harmonics(f, "analysis/winding_voltage", a.winding_voltage, "V");
+    for (const auto& [group, u] : {std::pair{"analysis/supply_voltage", a.voltage_unbalance},
+                                   std::pair{"analysis/line_current", a.line_current_unbalance}}) {
+      f.attribute(group, "vuf_pct", u.vuf_pct);
+      f.attribute(group, "lvur_pct", u.lvur_pct);
+      f.attribute(group, "pvur_pct", u.pvur_pct);
+    }
+  }
 
   std::vector<int> orders;
   std::vector<double> amplitude;

@@ -11,6 +11,10 @@ using nlohmann::json;
 
 constexpr double rad_to_deg = 180.0 / 3.14159265358979323846;
 
+std::string fmt_key(const char* name, const char* unit) {
+  return std::string(name) + "_" + unit;
+}
+
 json phasor_json(const Phasor& x, const char* unit_key) {
   return {{unit_key, std::abs(x)}, {"angle_deg", std::arg(x) * rad_to_deg}};
 }
@@ -28,27 +32,53 @@ json harmonics_json(const std::vector<HarmonicPhasors>& hs, const char* unit_key
   return out;
 }
 
+json unbalance_json(const UnbalanceMetrics& u, const std::string& quantity) {
+  return {{"vuf_pct", u.vuf_pct},
+          {"lvur_pct", u.lvur_pct},
+          {"pvur_pct", u.pvur_pct},
+          {"quantity", quantity},
+          {"definitions",
+           {{"vuf_pct", "|negative| / |positive| sequence (IEC 61000-4-30 / IEC 60034-26)"},
+            {"lvur_pct",
+             "max deviation of |Xa−Xb|, |Xb−Xc|, |Xc−Xa| from their mean / mean (NEMA MG-1 form)"},
+            {"pvur_pct", "max deviation of |Xa|, |Xb|, |Xc| from their mean / mean (IEEE form)"}}}};
+}
+
+json sequence_json(const std::vector<HarmonicPhasors>& hs, const char* unit) {
+  const HarmonicPhasors* f = find_order(hs, 1.0);
+  if (!f) return nullptr;
+  return {{fmt_key("positive", unit), std::abs(f->sequences.positive)},
+          {fmt_key("negative", unit), std::abs(f->sequences.negative)},
+          {fmt_key("zero", unit), std::abs(f->sequences.zero)},
+          {"values", "RMS of the fundamental"}};
+}
+
 void add_analysis(json& j, const RunAnalysis& a, std::size_t max_waves) {
   j["analysis"] = {{"periods", a.periods}, {"window_start_s", a.window_start_s}};
   if (!a.note.empty()) j["analysis"]["note"] = a.note;
   if (a.periods < 1) return;
-  const HarmonicPhasors* f = find_order(a.current, 1.0);
-  j["supply"]["unbalance"] = {
-      {"vuf_pct", a.current_unbalance.vuf_pct},
-      {"lvur_pct", a.current_unbalance.lvur_pct},
-      {"pvur_pct", a.current_unbalance.pvur_pct},
-      {"quantity", "phase currents, fundamental phasors"},
-      {"definitions",
-       {{"vuf_pct", "|negative| / |positive| sequence (IEC 61000-4-30 / IEC 60034-26)"},
-        {"lvur_pct",
-         "max deviation of |Ia−Ib|, |Ib−Ic|, |Ic−Ia| from their mean / mean (NEMA MG-1 form)"},
-        {"pvur_pct", "max deviation of |Ia|, |Ib|, |Ic| from their mean / mean (IEEE form)"}}}};
-  if (f)
-    j["supply"]["current_sequence"] = {{"positive_a", std::abs(f->sequences.positive)},
-                                       {"negative_a", std::abs(f->sequences.negative)},
-                                       {"zero_a", std::abs(f->sequences.zero)},
-                                       {"values", "RMS of the fundamental"}};
+  const bool voltage_fed = !a.supply_voltage.empty();
+  // The unbalance of what the supply imposes: its voltages when voltage-fed, else the currents.
+  j["supply"]["unbalance"] =
+      voltage_fed ? unbalance_json(a.voltage_unbalance,
+                                   "supply phase (line-to-neutral) voltages, fundamental phasors")
+                  : unbalance_json(a.current_unbalance, "phase currents, fundamental phasors");
+  j["supply"]["current_unbalance"] =
+      voltage_fed ? unbalance_json(a.line_current_unbalance, "line currents, fundamental phasors")
+                  : unbalance_json(a.current_unbalance, "phase currents, fundamental phasors");
+  j["supply"]["current_sequence"] = sequence_json(a.current, "a");
   j["supply"]["current_harmonics"] = harmonics_json(a.current, "rms_a");
+  if (voltage_fed) {
+    j["supply"]["voltage_sequence"] = sequence_json(a.supply_voltage, "v");
+    j["supply"]["voltage_harmonics"] = harmonics_json(a.supply_voltage, "rms_v");
+    j["supply"]["line_voltage_harmonics"] = harmonics_json(a.line_voltage, "rms_v");
+    j["supply"]["line_current_sequence"] = sequence_json(a.line_current, "a");
+    j["supply"]["line_current_harmonics"] = harmonics_json(a.line_current, "rms_a");
+    j["supply"]["winding_voltage_harmonics"] = harmonics_json(a.winding_voltage, "rms_v");
+    j["supply"]["note"] =
+        "current_* keys describe the winding (branch) currents; line_current_* the lines; a "
+        "delta's branch currents may carry a circulating zero sequence the lines do not";
+  }
   j["field"]["flux_linkage_harmonics"] = harmonics_json(a.flux_linkage, "rms_wb");
   j["field"]["emf_harmonics"] = harmonics_json(a.emf, "rms_v");
   json space = json::array();
@@ -125,7 +155,7 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                   {"phase_axis_deg_el", s.phase_axis_deg_el},
                   {"factors", factors}};
   j["supply"] = {{"frequency_hz", s.frequency_hz},
-                 {"feed", "current"},
+                 {"feed", s.voltage_fed ? "voltage" : "current"},
                  {"instant",
                   {{"time_s", s.time_s},
                    {"rotor_angle_deg", s.rotor_angle_deg},
@@ -149,6 +179,31 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                   {"discarded_steps", s.discarded_steps},
                   {"mechanical_speed_rpm", s.mechanical_speed_rpm},
                   {"band_pitches_per_step", s.band_pitches_per_step}};
+  if (s.voltage_fed)
+    j["circuit"] = {
+        {"connection", s.connection},
+        {"voltages_given", s.voltage_basis},
+        {"time_scheme", s.time_scheme},
+        {"phase_resistance_ohm", s.phase_resistance_ohm},
+        {"resistance_given", s.resistance_given},
+        {"end_winding_inductance_h", s.end_inductance_h},
+        {"end_winding_inductance_estimated", s.end_inductance_estimated},
+        {"model",
+         "v = R·i + L_end·di/dt + dψ/dt per winding branch, ψ from the field, solved with it at "
+         "every step; the rotor cage's own induced currents are not modelled (imposed bar "
+         "currents only), so the backward field and the negative-sequence currents are not "
+         "damped as a real cage damps them"}};
+  if (s.steady_state) {
+    const SteadyStateIndicator& ss = *s.steady_state;
+    j["steady_state"] = {
+        {"period_change_pct", ss.change_pct},
+        {"last_change_pct", ss.change_pct.empty() ? json(nullptr) : json(ss.change_pct.back())},
+        {"tolerance_pct", ss.tolerance_pct},
+        {"reached", ss.reached},
+        {"measure",
+         "largest change of a phase's fundamental flux-linkage phasor from one whole period to "
+         "the next, in % of the largest phasor"}};
+  }
   if (s.torque_available) {
     json harmonics = json::array();
     if (s.analysis)

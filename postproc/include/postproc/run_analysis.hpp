@@ -27,7 +27,22 @@ struct RunRecord {
   AirgapRecord force;   // σ_r = (B_r² − B_θ²)/(2μ0), full circle, every finished step
   std::vector<double> torque_nm;
   MachineOrders orders;
+  // A voltage feed: the source's phase and line-to-line voltages, the line currents and the
+  // voltage across each winding branch, every finished step (empty for a current feed).
+  bool voltage_fed = false;
+  std::array<std::vector<double>, 3> supply_voltage_v, line_voltage_v, line_current_a,
+      winding_voltage_v;
 };
+
+// The approach to periodic steady state: per whole electrical period from the first step, the
+// largest change of a phase's fundamental flux-linkage phasor from the period before, in % of
+// the largest phasor; reached when the last change is below the tolerance.
+struct SteadyStateIndicator {
+  std::vector<double> change_pct;  // one per period after the first
+  double tolerance_pct = 0.0;
+  bool reached = false;
+};
+SteadyStateIndicator steady_state_indicator(const RunRecord& record, double tolerance_pct);
 
 struct SpaceHarmonic {
   int order_mech = 0;
@@ -56,6 +71,11 @@ struct RunAnalysis {
   double window_start_s = 0.0;
   std::vector<HarmonicPhasors> current, flux_linkage, emf;
   UnbalanceMetrics current_unbalance;         // on the fundamental current phasors
+  // A voltage feed: sequence content of the supply's phase and line voltages, of the line
+  // currents and of the winding-branch voltages; unbalance of the supply voltages and of the
+  // line currents.
+  std::vector<HarmonicPhasors> supply_voltage, line_voltage, line_current, winding_voltage;
+  UnbalanceMetrics voltage_unbalance, line_current_unbalance;
   std::vector<double> space_amplitude_tesla;  // steps × orders (every finished step)
   int space_orders = 0;
   std::vector<SpaceHarmonic> space_harmonics;  // above 0.2 % of the fundamental, by order

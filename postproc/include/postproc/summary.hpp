@@ -53,6 +53,13 @@ struct RunSummary {
   double conductor_temperature_c = 0.0;
   bool end_winding_estimated = false;
   std::optional<BaselineComparison> baseline;  // with --baseline
+  // Voltage feed: the circuit and the approach to steady state.
+  bool voltage_fed = false;
+  std::string connection, time_scheme, voltage_basis;
+  bool resistance_given = false;
+  double end_inductance_h = 0.0;
+  bool end_inductance_estimated = false;
+  std::optional<SteadyStateIndicator> steady_state;  // time stepping
   std::string supply_form;                     // "phases", "sequence" or "waveform"
   // The fundamental phasors as described (RMS), for the unbalance of a static study; unset for
   // a measured table, which only a time-stepping run analyses.
