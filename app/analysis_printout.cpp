@@ -23,13 +23,12 @@ void print_analysis_table(std::FILE* out, const RunAnalysis& a, double torque_me
     const auto& l = a.line_current_unbalance;
     fmt::print(out, "  line current unbalance:   VUF {:.3f} %  LVUR {:.3f} %  PVUR {:.3f} %\n",
                l.vuf_pct, l.lvur_pct, l.pvur_pct);
-    fmt::print(out, "  {:>7}  {:>10} {:>10} {:>10}   {:>10} {:>10} {:>10}\n", "order",
-               "|Va| V", "|Vb| V", "|Vc| V", "pos V", "neg V", "zero V");
+    fmt::print(out, "  {:>7}  {:>10} {:>10} {:>10}   {:>10} {:>10} {:>10}\n", "order", "|Va| V",
+               "|Vb| V", "|Vc| V", "pos V", "neg V", "zero V");
     int shown = 0;
     for (const HarmonicPhasors& h : a.supply_voltage) {
       if (++shown > 6) break;
-      fmt::print(out,
-                 "  {:>7.3g}  {:>10.4g} {:>10.4g} {:>10.4g}   {:>10.4g} {:>10.4g} {:>10.4g}\n",
+      fmt::print(out, "  {:>7.3g}  {:>10.4g} {:>10.4g} {:>10.4g}   {:>10.4g} {:>10.4g} {:>10.4g}\n",
                  h.order, std::abs(h.abc[0]), std::abs(h.abc[1]), std::abs(h.abc[2]),
                  std::abs(h.sequences.positive), std::abs(h.sequences.negative),
                  std::abs(h.sequences.zero));

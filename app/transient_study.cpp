@@ -157,8 +157,8 @@ int TransientStudy::open_results() {
                                                                 : "none"));
   h5_->attribute("/", "feed", std::string(case_.supply.voltage_fed() ? "voltage" : "current"));
   if (circuit_) {
-    h5_->write("circuit/impedance", std::vector<double>{impedance_.resistance_ohm,
-                                                        impedance_.end_inductance_h},
+    h5_->write("circuit/impedance",
+               std::vector<double>{impedance_.resistance_ohm, impedance_.end_inductance_h},
                "ohm, H");
     h5_->attribute("circuit/impedance", "connection",
                    std::string(to_string(case_.supply.connection)));
@@ -287,9 +287,9 @@ void TransientStudy::start_circuit(MagnetostaticSystem& system, const RegionMode
   // The history the first step differences against: Λ of that steady state one and two steps
   // before the start, so the start carries no DC flux that would take L/R to decay.
   const double t0 = grid_.time(0), dt = grid_.dt_s;
-  const std::vector<Triple> history = steady_state_linkages(
-      case_.supply, case_.supply.connection, impedance_, l, case_.study.time_scheme, dt, t0,
-      {t0 - dt, t0 - 2.0 * dt});
+  const std::vector<Triple> history =
+      steady_state_linkages(case_.supply, case_.supply.connection, impedance_, l,
+                            case_.study.time_scheme, dt, t0, {t0 - dt, t0 - 2.0 * dt});
   circuit_->set_history(history);
   h5_->write("circuit/start_inductance", std::vector<double>(l.data(), l.data() + 9), "H");
 }
@@ -533,9 +533,10 @@ void TransientStudy::finish(const std::string& failure) {
                s.resistance_given ? " (given)" : "", s.end_inductance_h * 1e3,
                s.end_inductance_estimated ? " (estimated)" : " (given)");
   if (s.steady_state && !s.steady_state->change_pct.empty())
-    fmt::print("steady state: last period's flux-linkage change {:.3g} % ({} the {:g} % tolerance)\n",
-               s.steady_state->change_pct.back(), s.steady_state->reached ? "within" : "NOT within",
-               s.steady_state->tolerance_pct);
+    fmt::print(
+        "steady state: last period's flux-linkage change {:.3g} % ({} the {:g} % tolerance)\n",
+        s.steady_state->change_pct.back(), s.steady_state->reached ? "within" : "NOT within",
+        s.steady_state->tolerance_pct);
   print_analysis_table(stdout, *s.analysis, s.torque_mean_nm, s.torque_ripple_pct);
   if (s.saturation) print_saturation_table(stdout, *s.saturation);
   if (s.losses_available)

@@ -313,9 +313,9 @@ StudySpec parse_study(std::optional<TableReader> t) {
     s.steady_state_tolerance_pct =
         number_in(*t, "steady_state_tolerance_pct", 0.5, 1e-6, 100.0, "%");
   } else {
-    for (const char* k : {"steps_per_period", "periods", "discard_periods", "motion", "slip",
-                          "speed_rpm", "band_aligned_steps", "time_scheme",
-                          "steady_state_tolerance_pct"})
+    for (const char* k :
+         {"steps_per_period", "periods", "discard_periods", "motion", "slip", "speed_rpm",
+          "band_aligned_steps", "time_scheme", "steady_state_tolerance_pct"})
       not_applicable.emplace_back(
           k, "a static study solves one instant; use kind = \"time_stepping\"");
   }
@@ -427,7 +427,9 @@ const char* to_string(Symmetry s) {
   return s == Symmetry::automatic ? "auto" : "full";
 }
 
-const char* to_string(Feed f) { return f == Feed::voltage ? "voltage" : "current"; }
+const char* to_string(Feed f) {
+  return f == Feed::voltage ? "voltage" : "current";
+}
 
 const char* to_string(Connection c) {
   return c == Connection::star ? "star" : c == Connection::star_neutral ? "star_neutral" : "delta";

@@ -125,8 +125,9 @@ void parse_feed(TableReader& t, SupplySpec& s) {
   if (!s.voltage_fed()) {
     for (const char* key : {"connection", "voltages", "rms_v"})
       if (t.has(key))
-        throw t.error(key, "applies to feed = \"voltage\" only (a current feed imposes the "
-                           "winding currents)");
+        throw t.error(key,
+                      "applies to feed = \"voltage\" only (a current feed imposes the "
+                      "winding currents)");
     return;
   }
   if (t.has("rms_a"))
@@ -156,9 +157,10 @@ SupplySpec parse_supply(TableReader t, const std::string& case_file) {
     t.know("frequency_hz");
   }
   if (has_waveform || has_sequence) {
-    const std::string why = has_waveform ? fmt::format("the measured table in [supply.waveform] "
-                                                       "already sets every phase {}",
-                                                       w.quantity)
+    const std::string why = has_waveform ? fmt::format(
+                                               "the measured table in [supply.waveform] "
+                                               "already sets every phase {}",
+                                               w.quantity)
                                          : "[supply.sequence] already sets the fundamental";
     for (const char* key : {w.rms_key, "phases"})
       if (t.has(key)) throw t.error(key, "does not apply here: " + why);

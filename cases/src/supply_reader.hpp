@@ -12,8 +12,8 @@ namespace gapflux {
 // `case_file` locates a waveform table given by a relative path.
 SupplySpec parse_supply(TableReader t, const std::string& case_file);
 
-// Reads a CSV of time_s and three phase values (header line and '#' comments allowed); errors name the
-// CSV's own line. `key_path` is the case key that named the file.
+// Reads a CSV of time_s and three phase values (header line and '#' comments allowed); errors name
+// the CSV's own line. `key_path` is the case key that named the file.
 WaveformTable read_waveform_csv(const std::string& path, const std::string& key_path);
 
 // Fundamental frequency of a measured set: a hysteresis zero-crossing count on the largest

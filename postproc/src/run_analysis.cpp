@@ -108,8 +108,8 @@ RunAnalysis analyse_run(const RunRecord& r) {
     a.current_unbalance = unbalance_metrics(f->abc);
   if (r.voltage_fed) {
     const auto harmonics = [&](const std::array<std::vector<double>, 3>& series) {
-      return three_phase_harmonics(window(series, r.first_step, count), r.periods,
-                                   a.window_start_s, r.frequency_hz, floor);
+      return three_phase_harmonics(window(series, r.first_step, count), r.periods, a.window_start_s,
+                                   r.frequency_hz, floor);
     };
     a.supply_voltage = harmonics(r.supply_voltage_v);
     a.line_voltage = harmonics(r.line_voltage_v);

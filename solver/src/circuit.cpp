@@ -68,7 +68,10 @@ Eigen::MatrixXd coil_coupling(const Assembler& assembler, const CoilRegions& coi
 
 WindingCircuit::WindingCircuit(Connection connection, BranchImpedance z, TimeScheme scheme,
                                double linkage_scale)
-    : connection_(connection), t_(loop_to_branch(connection)), z_(z), scheme_(scheme),
+    : connection_(connection),
+      t_(loop_to_branch(connection)),
+      z_(z),
+      scheme_(scheme),
       scale_(linkage_scale) {
   if (!(z.resistance_ohm > 0.0) && !(z.end_inductance_h > 0.0))
     throw std::invalid_argument("a voltage-fed winding needs a resistance or an inductance");
@@ -83,7 +86,9 @@ bool WindingCircuit::second_order_next() const {
   return scheme_ == TimeScheme::bdf2 && history_.size() >= 2;
 }
 
-double WindingCircuit::a0() const { return second_order_next() ? 1.5 : 1.0; }
+double WindingCircuit::a0() const {
+  return second_order_next() ? 1.5 : 1.0;
+}
 
 Triple WindingCircuit::history_term() const {
   if (history_.empty()) throw std::logic_error("the circuit has no history to step from");
@@ -164,11 +169,11 @@ std::vector<Triple> steady_state_linkages(const SupplySpec& supply, Connection c
     // The difference formula's own response to e^{jhωt} in place of jhω, so that a linear
     // field starts on the discrete periodic solution (no start-up transient at all).
     const cplx z1 = std::polar(1.0, -h * omega * dt_s);
-    const cplx jw = scheme == TimeScheme::bdf2 ? (1.5 - 2.0 * z1 + 0.5 * z1 * z1) / dt_s
-                                               : (1.0 - z1) / dt_s;
-    const Eigen::MatrixXcd zl =
-        t.transpose().cast<cplx>() *
-        (z.resistance_ohm * Eigen::Matrix3cd::Identity() + jw * l_total) * t.cast<cplx>();
+    const cplx jw =
+        scheme == TimeScheme::bdf2 ? (1.5 - 2.0 * z1 + 0.5 * z1 * z1) / dt_s : (1.0 - z1) / dt_s;
+    const Eigen::MatrixXcd zl = t.transpose().cast<cplx>() *
+                                (z.resistance_ohm * Eigen::Matrix3cd::Identity() + jw * l_total) *
+                                t.cast<cplx>();
     const Eigen::VectorXcd il = zl.fullPivLu().solve(t.transpose().cast<cplx>() * eh);
     const Eigen::Vector3cd lambda = l_total * (t.cast<cplx>() * il);
     for (std::size_t s = 0; s < times_s.size(); ++s)

@@ -38,8 +38,8 @@ std::array<double, 3> supply_values(const SupplySpec& supply, double t_s) {
   }
   const double omega = 2.0 * std::numbers::pi * supply.frequency_hz;
   for (int k = 0; k < 3; ++k) {
-    i[k] = std::sqrt(2.0) * supply.phases[k].rms *
-           std::cos(omega * t_s + supply.phases[k].angle_rad);
+    i[k] =
+        std::sqrt(2.0) * supply.phases[k].rms * std::cos(omega * t_s + supply.phases[k].angle_rad);
     for (const SupplyComponent& h : supply.harmonics)
       i[k] += std::sqrt(2.0) * h.rms[k] * std::cos(h.order * omega * t_s + h.angle_rad[k]);
   }

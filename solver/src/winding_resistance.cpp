@@ -32,8 +32,8 @@ WindingResistance phase_resistance(const Case& c, const Lamination& lam, const M
   } else {
     constexpr double mu0 = 4e-7 * std::numbers::pi, permeance_factor = 0.3;
     const double n = w.series_turns_per_phase;
-    r.end_inductance_h = 4.0 * 3.0 / w.slots * mu0 * n * n * 2.0 * r.end_winding_length_m *
-                         permeance_factor;
+    r.end_inductance_h =
+        4.0 * 3.0 / w.slots * mu0 * n * n * 2.0 * r.end_winding_length_m * permeance_factor;
     r.end_inductance_estimated = true;
   }
   return r;

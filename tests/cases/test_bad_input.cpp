@@ -162,6 +162,30 @@ const BadCase catalogue[] = {
     {"waveform table with harmonics besides", "pump_4p36s.toml", "rms_a = 6.5",
      "[supply.waveform]\nfile = \"x.csv\"\n[[supply.harmonics]]\norder = 5\npercent = 1.0",
      "supply.harmonics", "does not apply here", ""},
+    {"voltage feed given a current", "pump_4p36s.toml", "feed = \"current\"", "feed = \"voltage\"",
+     "supply.rms_a", "a voltage feed takes rms_v", "rms_a = 6.5"},
+    {"connection on a current feed", "pump_4p36s.toml", "rms_a = 6.5",
+     "rms_a = 6.5\nconnection = \"delta\"", "supply.connection", "applies to feed", "connection ="},
+    {"unknown connection, with a suggestion", "pump_4p36s.toml",
+     "feed = \"current\"\nfrequency_hz = 50.0\nrms_a = 6.5",
+     "feed = \"voltage\"\nconnection = \"detla\"\nrms_v = 400.0", "supply.connection",
+     "did you mean \"delta\"", "connection ="},
+    {"star with neutral from line-to-line voltages", "pump_4p36s.toml",
+     "feed = \"current\"\nfrequency_hz = 50.0\nrms_a = 6.5",
+     "feed = \"voltage\"\nconnection = \"star_neutral\"\nvoltages = \"line_to_line\"\n"
+     "rms_v = 400.0",
+     "supply.voltages", "needs the phase (line-to-neutral) voltages", "voltages ="},
+    {"zero sequence in line-to-line voltages", "pump_4p36s.toml",
+     "feed = \"current\"\nfrequency_hz = 50.0\nrms_a = 6.5",
+     "feed = \"voltage\"\n[supply.sequence]\npositive = { rms_v = 400.0 }\n"
+     "zero = { rms_v = 5.0 }",
+     "supply.sequence.zero", "hold no zero sequence", "zero ="},
+    {"phase resistance of zero", "pump_4p36s.toml", "turns_per_coil = 12",
+     "turns_per_coil = 12\nphase_resistance_ohm = 0.0", "winding.phase_resistance_ohm",
+     "must be greater than 0", "phase_resistance_ohm"},
+    {"unknown time scheme", "pump_4p36s_running.toml", "[study]",
+     "[study]\ntime_scheme = \"crank_nicolson\"", "study.time_scheme",
+     "must be one of: backward_euler, bdf2", "time_scheme ="},
 };
 
 int line_of(const std::string& text, const std::string& fragment) {

@@ -131,6 +131,32 @@ TEST_CASE("harmonics follow each phase's timing, so their sequence comes from th
   CHECK(i[0] == Approx(std::sqrt(2.0) * (10.0 + 0.4 * std::cos(10 * deg))).epsilon(1e-12));
 }
 
+TEST_CASE("a voltage feed: connection, basis, line-to-line defaults and resistance keys",
+          "[cases][supply]") {
+  const Case c = read_case_text(
+      with_supply("[supply]\nfeed = \"voltage\"\nconnection = \"delta\"\nrms_v = 400.0\n"
+                  "[supply.phases]\nbc = { rms_v = 380.0 }\n"
+                  "[[supply.harmonics]]\norder = 5\npercent = 3.0\nphase = \"ab\"\n"),
+      "inline.toml");
+  CHECK(c.supply.voltage_fed());
+  CHECK(c.supply.connection == Connection::delta);
+  // Line-to-line is the default basis of a star or delta; a positive-sequence line set leads
+  // its phase set by 30° (common practice, no source), so ab sits at +30°.
+  CHECK(c.supply.voltage_basis == VoltageBasis::line_to_line);
+  CHECK(c.supply.phases[0].angle_rad == Approx(30 * deg));
+  CHECK(c.supply.phases[1].rms == Approx(380.0));
+  CHECK(c.supply.phases[1].angle_rad == Approx(-90 * deg));
+  REQUIRE(c.supply.harmonics.size() == 1);
+  CHECK(c.supply.harmonics[0].rms[0] == Approx(12.0));
+  CHECK(c.supply.harmonics[0].rms[1] == 0.0);
+  const Case n = read_case_text(
+      with_supply("[supply]\nfeed = \"voltage\"\nconnection = \"star_neutral\"\nrms_v = 230.0\n"),
+      "inline.toml");
+  CHECK(n.supply.voltage_basis == VoltageBasis::phase);
+  CHECK(n.supply.phases[2].angle_rad == Approx(-240 * deg));
+  CHECK(n.winding.end_winding_inductance_h < 0.0);  // estimated unless given
+}
+
 TEST_CASE("a measured waveform table: read, fundamental detected, interpolated, checked",
           "[cases][supply]") {
   const auto dir = test::temp_dir("waveform");

@@ -82,8 +82,8 @@ struct WindingSpec {
   double end_winding_length_m =
       0.0;  // one turn's end connection at one end; 0: estimated (winding_resistance)
   double conductor_temperature_c = 75.0;
-  double phase_resistance_ohm = 0.0;        // 0: from the winding's geometry
-  double end_winding_inductance_h = -1.0;   // per phase; < 0: estimated (winding_resistance)
+  double phase_resistance_ohm = 0.0;       // 0: from the winding's geometry
+  double end_winding_inductance_h = -1.0;  // per phase; < 0: estimated (winding_resistance)
 };
 
 enum class MaterialKind { air, conductor, steel };
@@ -151,7 +151,7 @@ struct WaveformTable {
 
 struct SupplySpec {
   Feed feed = Feed::current;
-  Connection connection = Connection::star;         // voltage feed
+  Connection connection = Connection::star;          // voltage feed
   VoltageBasis voltage_basis = VoltageBasis::phase;  // voltage feed
   double frequency_hz = 50.0;
   bool frequency_detected = false;  // true: taken from the waveform table, not the case

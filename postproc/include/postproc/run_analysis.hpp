@@ -70,7 +70,7 @@ struct RunAnalysis {
   int periods = 0;
   double window_start_s = 0.0;
   std::vector<HarmonicPhasors> current, flux_linkage, emf;
-  UnbalanceMetrics current_unbalance;         // on the fundamental current phasors
+  UnbalanceMetrics current_unbalance;  // on the fundamental current phasors
   // A voltage feed: sequence content of the supply's phase and line voltages, of the line
   // currents and of the winding-branch voltages; unbalance of the supply voltages and of the
   // line currents.

@@ -60,7 +60,7 @@ struct RunSummary {
   double end_inductance_h = 0.0;
   bool end_inductance_estimated = false;
   std::optional<SteadyStateIndicator> steady_state;  // time stepping
-  std::string supply_form;                     // "phases", "sequence" or "waveform"
+  std::string supply_form;                           // "phases", "sequence" or "waveform"
   // The fundamental phasors as described (RMS), for the unbalance of a static study; unset for
   // a measured table, which only a time-stepping run analyses.
   std::optional<std::array<Phasor, 3>> described_fundamental;

@@ -51,8 +51,7 @@ struct BranchImpedance {
 // difference formula needs.
 class WindingCircuit {
  public:
-  WindingCircuit(Connection connection, BranchImpedance z, TimeScheme scheme,
-                 double linkage_scale);
+  WindingCircuit(Connection connection, BranchImpedance z, TimeScheme scheme, double linkage_scale);
   // History: the total linkages of the last steps, newest first (one or two).
   void set_history(const std::vector<Triple>& newest_first);
   // The eliminated loop equations of the step, as the Newton solver's low-rank term.

@@ -1,0 +1,224 @@
+"""Voltage-fed windings: the field–circuit coupling read back from results.h5 with h5py and numpy
+(Debian's python3-h5py, python3-numpy; numpy's FFT is the reference DFT).
+
+Usage: test_voltage_feed.py GAPFLUX EXAMPLES_DIR TMP_DIR
+The invented 4-pole, 24-slot reference stator (open radial slots, smooth rotor), rotor locked,
+coarse mesh. Each check states its outside reference:
+- zero sequence: an isolated star fed with a pure zero-sequence voltage set carries no current
+  (Kirchhoff's current law: i_a + i_b + i_c = 0 and the set is co-phasal); with the neutral
+  connected the current is I0 = V0 / |R + jω(L_end + L0)|, the circuit law with the
+  zero-sequence inductance L0 = Ψ0/I0 measured by an independent current-fed run (linear iron;
+  BDF2 at 72 steps per period shifts jω by about (ωΔt)²/3 = 0.25 %, tolerance 1 %; first-order
+  triangles on a coarse mesh throughout, as these laws hold on any mesh);
+- a balanced voltage set drives balanced currents through the saturated winding (negative
+  sequence below 0.1 % of positive; the winding and lamination are symmetric);
+- Faraday's law: with negligible resistance and no end-winding leakage the fundamental flux
+  linkage is V_phase,peak/ω to 1 % at every level (72 steps per period: BDF2's own 0.25 %), and
+  above the knee the magnetising current per volt grows with the voltage as the iron saturates
+  (the curve bends upward; common practice, no source);
+- an overvoltage phase (+10 % on a, isolated star) raises the teeth's peak |B| most around phase
+  a's magnetic axis (design.md §4: a phase's field peaks on its axis) — the rise-weighted mean tooth
+  angle lies within half a slot pitch (15° el) of a's axis from the winding; the saturation
+  table's zone peaks equal the peaks recomputed from the stored field steps/B;
+- delta on a balanced supply, driven into saturation: the third-harmonic current saturation
+  causes is zero sequence and circulates in the delta (above 1 % of the fundamental branch
+  current) while the line currents i_a = i_ab − i_ca carry none of it; an isolated star at the
+  same winding voltage carries no third-harmonic current, keeps more third-harmonic flux (the
+  delta's circulating current magnetises it) and its star point moves at 3f (common practice,
+  no source);
+- backward Euler against BDF2 on a linear case at 12, 24, 48 steps per period: the observed
+  order log2(|I(Δt) − I(Δt/2)| / |I(Δt/2) − I(Δt/4)|) of the complex current phasor is near 1 for
+  backward Euler and near 2 for BDF2 (their truncation orders; any numerical-analysis text).
+"""
+import json
+import os
+import shutil
+import subprocess
+import sys
+
+import h5py
+import numpy as np
+
+gapflux, examples, tmp = sys.argv[1:4]
+os.makedirs(tmp, exist_ok=True)
+from reference_case import COARSE_MESH, LINEAR_IRON, reference_without_supply
+from tally import check, finish
+
+base = reference_without_supply(examples)
+# First-order triangles: the checks are circuit laws and trends, which hold on any mesh, and the
+# suite's time stays short.
+MESH = COARSE_MESH + "order = 1\n"
+ALPHA = np.exp(2j * np.pi / 3)
+# Resistance and end-winding leakage given, so the circuit law below uses the case's own values.
+R_OHM, L_END_H = 0.5, 0.2e-3
+IMPEDANCE = f"\nphase_resistance_ohm = {R_OHM}\nend_winding_inductance_mh = {L_END_H * 1e3}\n"
+
+
+def study(spp, scheme="bdf2", periods=1):
+    return f"""
+[study]
+kind = "time_stepping"
+steps_per_period = {spp}
+periods = {periods}
+motion = "locked"
+time_scheme = "{scheme}"
+
+[output]
+fields_every = 100000
+"""
+
+
+def winding(extra):
+    # The reference case's [winding] table is last before [supply]: extra keys join it.
+    return base.rstrip() + "\n" + extra + "\n"
+
+
+def run(name, supply, spp=36, scheme="bdf2", iron="", impedance=IMPEDANCE):
+    case = os.path.join(tmp, name + ".toml")
+    open(case, "w").write(winding(impedance) + iron + MESH + supply + study(spp, scheme))
+    out = os.path.join(tmp, name)
+    shutil.rmtree(out, ignore_errors=True)
+    r = subprocess.run([gapflux, "run", case, "--out", out], capture_output=True, text=True)
+    check(r.returncode == 0, f"{name}: run failed ({r.returncode}): {r.stderr[-2000:]}")
+    f = h5py.File(os.path.join(out, "results.h5"), "r")
+    return f, json.load(open(os.path.join(out, "summary.json")))
+
+
+def phasors(series, spp, order=1):
+    """RMS phasors of `order` over the last period of each column."""
+    x = np.asarray(series)[-spp:]
+    return np.fft.fft(x, axis=0)[order] * np.sqrt(2) / spp
+
+
+def sequences(abc):
+    a, b, c = abc
+    return ((a + b + c) / 3, (a + ALPHA * b + ALPHA ** 2 * c) / 3,
+            (a + ALPHA ** 2 * b + ALPHA * c) / 3)
+
+
+omega = 2 * np.pi * 50.0
+
+# --- zero sequence: isolated star, star with neutral, and L0 from a current feed -------------
+V0 = 10.0
+zero_supply = ('[supply]\nfeed = "voltage"\nconnection = "{}"\nvoltages = "phase"\n'
+               "[supply.sequence]\npositive = {{ rms_v = 0.0 }}\nzero = {{ rms_v = " + str(V0) +
+               " }}\n")
+f, s = run("zero_isolated", zero_supply.format("star"), 72, iron=LINEAR_IRON)
+i_isolated = np.abs(f["steps/phase_current"][...]).max()
+f, s = run("zero_neutral", zero_supply.format("star_neutral"), 72, iron=LINEAR_IRON)
+i0_neutral = abs(sequences(phasors(f["steps/phase_current"], 72))[0])
+check(i_isolated < 1e-9 * i0_neutral,
+      f"an isolated star carries {i_isolated:.3e} A under a zero-sequence voltage")
+f, s = run("zero_current_fed", "[supply]\n[supply.sequence]\npositive = { rms_a = 0.0 }\n"
+           "zero = { rms_a = 1.0 }\n", 72, iron=LINEAR_IRON)
+psi0 = sequences(phasors(f["steps/flux_linkage"], 72))[0]
+l0 = abs(psi0) / 1.0
+expected = V0 / abs(R_OHM + 1j * omega * (L_END_H + l0))
+check(abs(i0_neutral - expected) < 0.01 * expected,
+      f"zero-sequence current {i0_neutral:.5f} A, circuit law with L0 = {l0 * 1e3:.4f} mH gives "
+      f"{expected:.5f} A")
+print(f"zero sequence: isolated star {i_isolated:.2e} A; with neutral {i0_neutral:.5f} A against "
+      f"V0/|R + jω(L_end + L0)| = {expected:.5f} A (L0 = {l0 * 1e3:.4f} mH)")
+
+# --- balanced voltages through the saturated winding -----------------------------------------
+V_PHASE = 46.0  # V RMS line-to-neutral: the reference teeth well past the steel's knee
+f, s = run("balanced", f'[supply]\nfeed = "voltage"\nvoltages = "phase"\nrms_v = {V_PHASE}\n')
+z, p1, n1 = sequences(phasors(f["steps/phase_current"], 36))
+check(abs(n1) < 1e-3 * abs(p1), f"balanced voltages: negative/positive current {abs(n1 / p1):.2e}")
+check(s["saturation"]["peak_tesla"] > s["saturation"]["threshold_tesla"],
+      "the balanced case does not reach the knee")
+print(f"balanced: I1 = {abs(p1):.4f} A, I2/I1 = {abs(n1 / p1):.2e}, peak |B| "
+      f"{s['saturation']['peak_tesla']:.3f} T")
+balanced_teeth = {zn["tooth"]: zn for zn in s["saturation"]["regions"]
+                  if zn["name"].startswith("stator tooth ") and "tip" not in zn["name"]}
+axis_a = np.radians(s["winding"]["phase_axis_deg_el"][0])
+pole_pairs = s["winding"]["poles"] // 2
+
+# --- Faraday's law and the magnetising curve --------------------------------------------------
+ratios = []
+for level in (15.0, 30.0, 46.0, 60.0):
+    f, s = run(f"faraday_{level:g}",
+               f'[supply]\nfeed = "voltage"\nvoltages = "line_to_line"\nrms_v = {level * np.sqrt(3)}\n',
+               72, impedance="\nphase_resistance_ohm = 1e-6\nend_winding_inductance_mh = 0.0\n")
+    psi1 = abs(phasors(f["steps/flux_linkage"], 72)[0]) * np.sqrt(2)
+    expected = level * np.sqrt(2) / omega
+    check(abs(psi1 - expected) < 0.01 * expected,
+          f"{level} V: flux linkage {psi1:.6f} Wb, V_peak/ω = {expected:.6f} Wb")
+    i1 = abs(sequences(phasors(f["steps/phase_current"], 72))[1])
+    ratios.append(i1 / level)
+    print(f"Faraday {level:5.1f} V: ψ1 = {psi1:.6f} Wb (V_peak/ω {expected:.6f}), I1 = {i1:.4f} A")
+# Below the knee the steel's permeability still rises with B (the lowest level sits there), so
+# the upward bend is checked from the second level on.
+check(all(b > a for a, b in zip(ratios[1:], ratios[2:])) and ratios[-1] > 1.15 * ratios[1],
+      f"magnetising current per volt does not grow with saturation: {ratios}")
+
+# --- an overvoltage phase --------------------------------------------------------------------
+f, s = run("overvoltage", f'[supply]\nfeed = "voltage"\nvoltages = "phase"\nrms_v = {V_PHASE}\n'
+           f"[supply.phases]\na = {{ rms_v = {1.1 * V_PHASE} }}\n")
+raised = {zn["tooth"]: zn for zn in s["saturation"]["regions"]
+          if zn["name"].startswith("stator tooth ") and "tip" not in zn["name"]}
+zsum = 0j
+for k, zone in balanced_teeth.items():
+    rise = raised[k]["peak_tesla"] - zone["peak_tesla"]
+    zsum += max(rise, 0.0) * np.exp(2j * pole_pairs * np.radians(zone["angle_deg"]))
+miss = np.degrees(abs(np.angle(np.exp(2j * (np.angle(zsum) / 2 - axis_a))) / 2))
+check(miss < 15.0, f"the overvoltage raises the teeth most {miss:.1f}° el from phase a's axis")
+print(f"overvoltage on a: teeth rise most {miss:.1f}° el from a's axis")
+# The table against the field itself: per zone, the peak over the last period of |B| per triangle.
+spp = 36
+b = f["steps/B"][-spp:].reshape(spp, -1, 2)
+peak = np.sqrt((b ** 2).sum(axis=2)).max(axis=0)
+zone_of = f["saturation/zone"][...]
+names = [n.decode() if isinstance(n, bytes) else n for n in f["saturation/zones/name"][...]]
+table = f["saturation/zones/peak_B"][...]
+worst = max(abs(peak[zone_of == k].max() - table[k]) for k in range(len(names))
+            if (zone_of == k).any())
+check(worst < 1e-12, f"zone peaks differ from the stored field by {worst} T")
+
+# --- delta: the circulating third harmonic ----------------------------------------------------
+# Deeper into saturation than above, so that the third harmonic stands well clear of the mesh's
+# own small phase-to-phase differences.
+V_DEEP = 60.0
+f, s = run("delta", f'[supply]\nfeed = "voltage"\nconnection = "delta"\nrms_v = {V_DEEP}\n')
+branch1 = sequences(phasors(f["steps/phase_current"], 36))[1]
+branch3 = sequences(phasors(f["steps/phase_current"], 36, 3))
+line1 = sequences(phasors(f["steps/line_current"], 36))[1]
+line3 = sequences(phasors(f["steps/line_current"], 36, 3))
+psi3_delta = abs(sequences(phasors(f["steps/flux_linkage"], 36, 3))[0])
+check(abs(branch3[0]) > 0.01 * abs(branch1),
+      f"delta: circulating third harmonic {abs(branch3[0]):.4e} A vs {abs(branch1):.4f} A")
+check(abs(branch3[0]) > 20 * max(abs(branch3[1]), abs(branch3[2])),
+      f"delta: the third harmonic is not zero sequence {branch3}")
+check(abs(line3[0]) < 1e-12 * abs(line1), "delta: zero sequence in the lines")
+# The same winding voltage on an isolated star: no third-harmonic current can flow, so the flux
+# keeps more of its zero-sequence third and the star point moves at 3f instead.
+f, s = run("star_deep", f'[supply]\nfeed = "voltage"\nvoltages = "phase"\nrms_v = {V_DEEP}\n')
+star3 = sequences(phasors(f["steps/phase_current"], 36, 3))
+psi3_star = abs(sequences(phasors(f["steps/flux_linkage"], 36, 3))[0])
+shift3 = abs(sequences(phasors(f["steps/winding_voltage"], 36, 3))[0])
+check(abs(star3[0]) < 1e-9 * abs(branch1), f"isolated star: zero-sequence third {star3[0]}")
+check(psi3_star > 1.2 * psi3_delta,
+      f"the delta's circulating current does not reduce the third-harmonic flux: star "
+      f"{psi3_star:.4e} Wb, delta {psi3_delta:.4e} Wb")
+check(shift3 > 0.005 * V_DEEP, f"isolated star: the star point moves by only {shift3:.3e} V at 3f")
+print(f"delta at {V_DEEP} V: branch I1 = {abs(branch1):.4f} A, circulating I3 = "
+      f"{abs(branch3[0]):.4f} A; line I1 = {abs(line1):.4f} A (√3 × branch: "
+      f"{abs(line1) / abs(branch1):.4f}); zero-sequence third flux {psi3_delta:.3e} Wb against "
+      f"{psi3_star:.3e} Wb in an isolated star, whose star point moves {shift3:.3f} V at 3f")
+
+# --- convergence order of backward Euler and BDF2 ---------------------------------------------
+for scheme, low, high in (("backward_euler", 0.8, 1.3), ("bdf2", 1.7, 2.4)):
+    currents = []
+    for spp in (12, 24, 48):
+        f, s = run(f"order_{scheme}_{spp}",
+                   '[supply]\nfeed = "voltage"\nvoltages = "line_to_line"\nrms_v = 20.0\n',
+                   spp, scheme, iron=LINEAR_IRON)
+        t = f["steps/time"][...].ravel()
+        # Phasor of phase a at the fundamental, referred to t = 0 (the same in every run).
+        i = f["steps/phase_current"][...][:, 0]
+        currents.append(2 / spp * np.sum(i * np.exp(-1j * omega * t)))
+    e1, e2 = abs(currents[0] - currents[1]), abs(currents[1] - currents[2])
+    order = np.log2(e1 / e2)
+    check(low < order < high, f"{scheme}: observed order {order:.3f}")
+    print(f"{scheme}: differences {e1:.3e}, {e2:.3e} A → observed order {order:.3f}")
+finish()
