@@ -90,9 +90,15 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
              "\"{}\"\nshaft = \"{}\"\n",
              m.stator_iron, m.rotor_iron, m.coils, m.bars, m.shaft);
   const auto& sp = c.supply;
-  fmt::print(out, "\n[supply]\nfeed = \"current\"\nfrequency_hz = {:.9g}{}\n", sp.frequency_hz,
-             sp.frequency_detected ? "  # detected from the waveform table" : "");
-  const char* names[3] = {"a", "b", "c"};
+  fmt::print(out, "\n[supply]\nfeed = \"{}\"\nfrequency_hz = {:.9g}{}\n", to_string(sp.feed),
+             sp.frequency_hz, sp.frequency_detected ? "  # detected from the waveform table" : "");
+  const bool line = sp.voltage_fed() && sp.voltage_basis == VoltageBasis::line_to_line;
+  if (sp.voltage_fed())
+    fmt::print(out, "connection = \"{}\"\nvoltages = \"{}\"\n", to_string(sp.connection),
+               to_string(sp.voltage_basis));
+  const char* names[3] = {line ? "ab" : "a", line ? "bc" : "b", line ? "ca" : "c"};
+  const char* key = sp.voltage_fed() ? "rms_v" : "rms_a";
+  const char* unit = sp.unit();
   if (sp.form == SupplyForm::waveform) {
     fmt::print(out, "waveform.file = \"{}\"  # {} rows, {:.6g} s to {:.6g} s\n", sp.waveform.file,
                sp.waveform.time_s.size(), sp.waveform.time_s.front(), sp.waveform.time_s.back());
@@ -100,37 +106,43 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
     if (sp.form == SupplyForm::sequence) {
       const char* seq[3] = {"zero", "positive", "negative"};
       for (int q = 0; q < 3; ++q)
-        fmt::print(out, "sequence.{} = {{ rms_a = {:g}, angle_deg = {:g} }}\n", seq[q],
+        fmt::print(out, "sequence.{} = {{ {} = {:g}, angle_deg = {:g} }}\n", seq[q], key,
                    sp.sequence[q].rms, sp.sequence[q].angle_rad * to_deg);
       fmt::print(out, "# resolved to phases:\n");
     }
     for (int k = 0; k < 3; ++k)
-      fmt::print(out, "{}phases.{} = {{ rms_a = {:.6g}, angle_deg = {:.6g} }}\n",
-                 sp.form == SupplyForm::sequence ? "# " : "", names[k], sp.phases[k].rms,
+      fmt::print(out, "{}phases.{} = {{ {} = {:.6g}, angle_deg = {:.6g} }}\n",
+                 sp.form == SupplyForm::sequence ? "# " : "", names[k], key, sp.phases[k].rms,
                  sp.phases[k].angle_rad * to_deg);
     // What the description amounts to, per order (Fortescue), before any field is solved.
     std::array<Phasor, 3> f;
     for (int k = 0; k < 3; ++k) f[k] = std::polar(sp.phases[k].rms, sp.phases[k].angle_rad);
+    // Line-to-line values: the metrics of the phase set they make (without zero sequence), as
+    // the run reports them.
+    if (line) f = {(f[0] - f[2]) / 3.0, (f[1] - f[0]) / 3.0, (f[2] - f[1]) / 3.0};
     const SequenceSet q = fortescue(f);
     const UnbalanceMetrics u = unbalance_metrics(f);
     fmt::print(out,
-               "# fundamental sequences: positive {:.4g} A, negative {:.4g} A, zero {:.4g} A; VUF "
-               "{:.3f} %, LVUR {:.3f} %, PVUR {:.3f} %\n",
-               std::abs(q.positive), std::abs(q.negative), std::abs(q.zero), u.vuf_pct, u.lvur_pct,
-               u.pvur_pct);
+               "# fundamental sequences: positive {:.4g} {}, negative {:.4g} {}, zero {:.4g} {}; "
+               "VUF {:.3f} %, LVUR {:.3f} %, PVUR {:.3f} %{}\n",
+               std::abs(q.positive), unit, std::abs(q.negative), unit, std::abs(q.zero), unit,
+               u.vuf_pct, u.lvur_pct, u.pvur_pct,
+               line ? " (of the phase set the line voltages make)" : "");
     for (const SupplyComponent& h : sp.harmonics) {
       std::array<Phasor, 3> x;
       for (int k = 0; k < 3; ++k) x[k] = std::polar(h.rms[k], h.angle_rad[k]);
       const SequenceSet hq = fortescue(x);
-      fmt::print(out, "# order {:g}: positive {:.4g} A, negative {:.4g} A, zero {:.4g} A\n",
-                 h.order, std::abs(hq.positive), std::abs(hq.negative), std::abs(hq.zero));
+      fmt::print(out, "# order {:g}: positive {:.4g} {}, negative {:.4g} {}, zero {:.4g} {}\n",
+                 h.order, std::abs(hq.positive), unit, std::abs(hq.negative), unit,
+                 std::abs(hq.zero), unit);
     }
     for (const SupplyComponent& h : sp.harmonics)
       fmt::print(out,
-                 "# {}: order {:g}: a {:.4g} A ∠{:.4g}°, b {:.4g} A ∠{:.4g}°, c {:.4g} A "
+                 "# {}: order {:g}: {} {:.4g} {} ∠{:.4g}°, {} {:.4g} {} ∠{:.4g}°, {} {:.4g} {} "
                  "∠{:.4g}°\n",
-                 h.key_path, h.order, h.rms[0], wrapped_deg(h.angle_rad[0]), h.rms[1],
-                 wrapped_deg(h.angle_rad[1]), h.rms[2], wrapped_deg(h.angle_rad[2]));
+                 h.key_path, h.order, names[0], h.rms[0], unit, wrapped_deg(h.angle_rad[0]),
+                 names[1], h.rms[1], unit, wrapped_deg(h.angle_rad[1]), names[2], h.rms[2], unit,
+                 wrapped_deg(h.angle_rad[2]));
   }
   fmt::print(out,
              "\n[mesh]\norder = {}\nairgap_size_mm = {:g}\niron_size_mm = {:g}\ngrowth_rate = "

@@ -372,6 +372,10 @@ Case read_case_text(std::string_view text, const std::string& file_name) {
   c.mesh = parse_mesh(root.table("mesh"));
   c.study = parse_study(root.table("study"));
   c.rotor_currents = parse_rotor_currents(root.table("rotor_currents"));
+  if (c.supply.voltage_fed() && c.study.kind != StudyKind::time_stepping)
+    throw c.sources.error("supply.feed",
+                          "a voltage feed needs [study] kind = \"time_stepping\": the flux "
+                          "follows the voltage's integral, which one instant does not define");
   if (c.rotor_currents.bar_rms_a > 0.0 && c.rotor.kind != RotorKind::cage)
     throw c.sources.error("rotor_currents.bar_rms_a",
                           "a smooth rotor has no bars to carry currents");

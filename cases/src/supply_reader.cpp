@@ -119,6 +119,45 @@ void parse_harmonics(std::vector<TableReader> tables, const Terms& w, SupplySpec
   }
 }
 
+// Line-to-line phasors must close (u_ab + u_bc + u_ca = 0, Kirchhoff's voltage law). Without
+// any angle given, the angles follow from the three magnitudes as a meter reads them: ab stays
+// at 30° and bc lags it by the triangle's exterior angle, by the law of cosines,
+// cos(φ_bc − φ_ab) = (|ca|² − |ab|² − |bc|²)/(2|ab||bc|); ca closes the triangle. With angles
+// given, a set that does not close to 0.1 % is refused.
+void close_line_triangle(TableReader& t, std::optional<TableReader>& phases, const Terms& w,
+                         SupplySpec& s) {
+  bool angles_given = false;
+  for (int k = 0; k < 3; ++k)
+    if (phases)
+      if (auto p = phases->table(w.phase[k]); p && p->has("angle_deg")) angles_given = true;
+  const double a = s.phases[0].rms, b = s.phases[1].rms, c = s.phases[2].rms;
+  const double mean = (a + b + c) / 3.0;
+  if (mean <= 0.0) return;
+  if (!angles_given) {
+    const double cosine = (c * c - a * a - b * b) / (2.0 * a * b);
+    if (!(a > 0 && b > 0) || cosine < -1.0 - 1e-12 || cosine > 1.0)
+      throw t.error(w.rms_key, fmt::format("line-to-line magnitudes {:g}, {:g}, {:g} V do not "
+                                           "form a triangle (each must be below the sum of the "
+                                           "other two)",
+                                           a, b, c));
+    const cplx ab = std::polar(a, s.phases[0].angle_rad);
+    const cplx bc = std::polar(b, s.phases[0].angle_rad - std::acos(std::max(-1.0, cosine)));
+    const cplx ca = -(ab + bc);
+    s.phases[1].angle_rad = std::arg(bc);
+    s.phases[2].rms = std::abs(ca);
+    s.phases[2].angle_rad = std::arg(ca);
+    return;
+  }
+  cplx sum = 0;
+  for (const PhaseSpec& p : s.phases) sum += std::polar(p.rms, p.angle_rad);
+  if (std::abs(sum) > 1e-3 * mean)
+    throw t.error("phases", fmt::format("the line-to-line voltages do not close: |u_ab + u_bc + "
+                                        "u_ca| = {:.4g} V (Kirchhoff's voltage law); give the "
+                                        "three magnitudes without angles to have the angles "
+                                        "from the triangle",
+                                        std::abs(sum)));
+}
+
 // Feed, connection and voltage basis; the keys that do not apply to the feed are refused.
 void parse_feed(TableReader& t, SupplySpec& s) {
   s.feed = static_cast<Feed>(choice(t, "feed", {"current", "voltage"}, std::size_t{0}));
@@ -225,6 +264,7 @@ SupplySpec parse_supply(TableReader t, const std::string& case_file) {
                       : PhaseSpec{s.rms, default_angle_deg[k] * deg};
     }
     if (phases) phases->finish();
+    if (line) close_line_triangle(t, phases, w, s);
     t.know("sequence");
   }
   parse_harmonics(t.table_array("harmonics"), w, s);

@@ -171,10 +171,13 @@ std::vector<Triple> steady_state_linkages(const SupplySpec& supply, Connection c
     const cplx z1 = std::polar(1.0, -h * omega * dt_s);
     const cplx jw =
         scheme == TimeScheme::bdf2 ? (1.5 - 2.0 * z1 + 0.5 * z1 * z1) / dt_s : (1.0 - z1) / dt_s;
-    const Eigen::MatrixXcd zl = t.transpose().cast<cplx>() *
-                                (z.resistance_ohm * Eigen::Matrix3cd::Identity() + jw * l_total) *
-                                t.cast<cplx>();
-    const Eigen::VectorXcd il = zl.fullPivLu().solve(t.transpose().cast<cplx>() * eh);
+    // At most 3 × 3: a bounded type keeps the LU on the stack (and apart from the dynamic
+    // decompositions libgmsh exports).
+    using LoopMatrix = Eigen::Matrix<cplx, Eigen::Dynamic, Eigen::Dynamic, 0, 3, 3>;
+    const LoopMatrix zl = t.transpose().cast<cplx>() *
+                          (z.resistance_ohm * Eigen::Matrix3cd::Identity() + jw * l_total) *
+                          t.cast<cplx>();
+    const Eigen::VectorXcd il = zl.partialPivLu().solve(t.transpose().cast<cplx>() * eh);
     const Eigen::Vector3cd lambda = l_total * (t.cast<cplx>() * il);
     for (std::size_t s = 0; s < times_s.size(); ++s)
       for (int k = 0; k < 3; ++k)

@@ -119,8 +119,10 @@ NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const 
       const long m = low_rank->b.cols();
       Eigen::MatrixXd y(n, m);
       for (long k = 0; k < m; ++k) cholesky.solve(low_rank->b.col(k).data(), y.col(k).data());
-      const Eigen::MatrixXd capacitance =
-          low_rank->m.inverse() + low_rank->b.transpose() * y;  // m × m, SPD
+      // LDLT, not inverse(): libgmsh exports its own PartialPivLU<MatrixXd>, and an
+      // instantiation here would be interposed with it (a mismatched allocator under ASan).
+      const Eigen::MatrixXd m_inverse = low_rank->m.ldlt().solve(Eigen::MatrixXd::Identity(m, m));
+      const Eigen::MatrixXd capacitance = m_inverse + low_rank->b.transpose() * y;  // SPD
       delta -= y * capacitance.ldlt().solve(low_rank->b.transpose() * delta);
     }
     record.solve_s = seconds_since(t0);

@@ -180,6 +180,16 @@ const BadCase catalogue[] = {
      "feed = \"voltage\"\n[supply.sequence]\npositive = { rms_v = 400.0 }\n"
      "zero = { rms_v = 5.0 }",
      "supply.sequence.zero", "hold no zero sequence", "zero ="},
+    {"voltage feed in a static study", "pump_4p36s.toml",
+     "feed = \"current\"\nfrequency_hz = 50.0\nrms_a = 6.5", "feed = \"voltage\"\nrms_v = 400.0",
+     "supply.feed", "needs [study] kind = \"time_stepping\"", "feed ="},
+    {"line-to-line voltages that do not close", "pump_4p36s_running.toml", "rms_a = 21.0",
+     "feed = \"voltage\"\nrms_v = 400.0\n[supply.phases]\nbc = { rms_v = 400.0, angle_deg = -80.0 "
+     "}",
+     "supply.phases", "do not close", ""},
+    {"line-to-line magnitudes that make no triangle", "pump_4p36s_running.toml", "rms_a = 21.0",
+     "feed = \"voltage\"\nrms_v = 400.0\n[supply.phases]\nbc = { rms_v = 900.0 }", "supply.rms_v",
+     "do not form a triangle", "rms_v ="},
     {"phase resistance of zero", "pump_4p36s.toml", "turns_per_coil = 12",
      "turns_per_coil = 12\nphase_resistance_ohm = 0.0", "winding.phase_resistance_ohm",
      "must be greater than 0", "phase_resistance_ohm"},
