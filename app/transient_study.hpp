@@ -41,7 +41,8 @@ class TransientStudy {
   void step(int n);
   // A voltage feed: the start-up history from the linear steady state (before the first step).
   void start_circuit(MagnetostaticSystem& system, const RegionModel& model,
-                     const Eigen::MatrixXd& coupling);
+                     const Eigen::MatrixXd& coupling, const std::vector<double>& bar_density,
+                     const NewtonSettings& settings);
   void write_fields(int n, const MagnetostaticSystem& system, const ElementFields& fields);
   // Peak |B| and time over the threshold per triangle over the last period, written to
   // results.h5 (saturation/) and saturation.vtu.

@@ -170,13 +170,26 @@ SteadyStateIndicator steady_state_indicator(const RunRecord& r, double tolerance
   const int spp = r.steps_per_period;
   const int periods = spp > 0 ? static_cast<int>(r.flux_linkage_wb[0].size()) / spp : 0;
   std::vector<std::array<Phasor, 3>> phasors;
+  std::vector<double> dc;
   for (int q = 0; q < periods; ++q) {
     std::array<Phasor, 3> x{};
-    for (int k = 0; k < 3; ++k)
-      for (int n = 0; n < spp; ++n)
+    double largest_dc = 0.0;
+    for (int k = 0; k < 3; ++k) {
+      double mean = 0.0;
+      for (int n = 0; n < spp; ++n) {
         x[k] += r.flux_linkage_wb[k][q * spp + n] *
                 std::polar(2.0 / spp, -2.0 * std::numbers::pi * n / spp);
+        mean += r.flux_linkage_wb[k][q * spp + n] / spp;
+      }
+      largest_dc = std::max(largest_dc, std::abs(mean));
+    }
     phasors.push_back(x);
+    dc.push_back(largest_dc);
+  }
+  for (int q = 0; q < periods; ++q) {
+    double size = 0.0;
+    for (int k = 0; k < 3; ++k) size = std::max(size, std::abs(phasors[q][k]));
+    s.dc_pct.push_back(size > 0 ? 100.0 * dc[q] / size : 0.0);
   }
   for (int q = 1; q < periods; ++q) {
     double change = 0.0, size = 0.0;
@@ -186,7 +199,8 @@ SteadyStateIndicator steady_state_indicator(const RunRecord& r, double tolerance
     }
     s.change_pct.push_back(size > 0 ? 100.0 * change / size : 0.0);
   }
-  s.reached = !s.change_pct.empty() && s.change_pct.back() < tolerance_pct;
+  s.reached = !s.change_pct.empty() && s.change_pct.back() < tolerance_pct &&
+              s.dc_pct.back() < tolerance_pct;
   return s;
 }
 

@@ -198,11 +198,15 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
     j["steady_state"] = {
         {"period_change_pct", ss.change_pct},
         {"last_change_pct", ss.change_pct.empty() ? json(nullptr) : json(ss.change_pct.back())},
+        {"period_dc_pct", ss.dc_pct},
+        {"last_dc_pct", ss.dc_pct.empty() ? json(nullptr) : json(ss.dc_pct.back())},
         {"tolerance_pct", ss.tolerance_pct},
         {"reached", ss.reached},
         {"measure",
-         "largest change of a phase's fundamental flux-linkage phasor from one whole period to "
-         "the next, in % of the largest phasor"}};
+         "per whole period from the first step: the largest change of a phase's fundamental "
+         "flux-linkage phasor from the period before, and the largest DC part of a phase's flux "
+         "linkage, in % of the largest fundamental amplitude; reached when both are below the "
+         "tolerance in the last period"}};
   }
   if (s.torque_available) {
     json harmonics = json::array();

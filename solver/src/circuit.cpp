@@ -137,8 +137,18 @@ WindingCircuit::StepResult WindingCircuit::finish_step(const LowRankTerm& term,
   return r;
 }
 
-std::vector<Triple> steady_state_linkages(const SupplySpec& supply, Connection connection,
-                                          BranchImpedance z, const Eigen::Matrix3d& inductance_h,
+Eigen::Vector3cd positive_sequence_amplitudes(const Triple& x) {
+  const double third = 2.0 * std::numbers::pi / 3.0;
+  cplx sum = 0;
+  for (int k = 0; k < 3; ++k) sum += x[k] * std::polar(1.0, k * third);
+  const cplx amplitude = 2.0 / 3.0 * sum;
+  Eigen::Vector3cd out;
+  for (int k = 0; k < 3; ++k) out[k] = amplitude * std::polar(1.0, -k * third);
+  return out;
+}
+
+SteadyStateEstimate steady_state_estimate(const SupplySpec& supply, Connection connection,
+                                          BranchImpedance z, const LinearWinding& winding,
                                           TimeScheme scheme, double dt_s, double t_start_s,
                                           const std::vector<double>& times_s) {
   // The branch voltages over one period, sampled finely enough for the harmonics a case gives.
@@ -151,8 +161,10 @@ std::vector<Triple> steady_state_linkages(const SupplySpec& supply, Connection c
   }
   const Eigen::MatrixXd t = loop_to_branch(connection);
   const Eigen::Matrix3cd l_total =
-      (inductance_h + z.end_inductance_h * Eigen::Matrix3d::Identity()).cast<cplx>();
-  std::vector<Triple> out(times_s.size(), Triple{0, 0, 0});
+      (winding.inductance_h + z.end_inductance_h * Eigen::Matrix3d::Identity()).cast<cplx>();
+  SteadyStateEstimate out;
+  out.linkage_wb.assign(times_s.size(), Triple{0, 0, 0});
+  out.current_a.assign(times_s.size(), Triple{0, 0, 0});
   double largest = 0.0;
   for (const auto& series : e)
     for (double v : series) largest = std::max(largest, std::abs(v));
@@ -165,7 +177,9 @@ std::vector<Triple> steady_state_linkages(const SupplySpec& supply, Connection c
         sum += e[k][n] * std::polar(1.0, -2.0 * std::numbers::pi * h * n / samples);
       eh[k] = 2.0 * sum / double(samples);
     }
-    if (eh.cwiseAbs().maxCoeff() < 1e-9 * largest) continue;
+    const Eigen::Vector3cd rotor =
+        h == 1 ? winding.rotor_linkage_wb : Eigen::Vector3cd(Eigen::Vector3cd::Zero());
+    if (eh.cwiseAbs().maxCoeff() < 1e-9 * largest && rotor.cwiseAbs().maxCoeff() == 0.0) continue;
     // The difference formula's own response to e^{jhωt} in place of jhω, so that a linear
     // field starts on the discrete periodic solution (no start-up transient at all).
     const cplx z1 = std::polar(1.0, -h * omega * dt_s);
@@ -177,11 +191,17 @@ std::vector<Triple> steady_state_linkages(const SupplySpec& supply, Connection c
     const LoopMatrix zl = t.transpose().cast<cplx>() *
                           (z.resistance_ohm * Eigen::Matrix3cd::Identity() + jw * l_total) *
                           t.cast<cplx>();
-    const Eigen::VectorXcd il = zl.partialPivLu().solve(t.transpose().cast<cplx>() * eh);
-    const Eigen::Vector3cd lambda = l_total * (t.cast<cplx>() * il);
-    for (std::size_t s = 0; s < times_s.size(); ++s)
-      for (int k = 0; k < 3; ++k)
-        out[s][k] += std::real(lambda[k] * std::polar(1.0, h * omega * (times_s[s] - t_start_s)));
+    const Eigen::VectorXcd il =
+        zl.partialPivLu().solve(t.transpose().cast<cplx>() * (eh - jw * rotor));
+    const Eigen::Vector3cd iw = t.cast<cplx>() * il;
+    const Eigen::Vector3cd lambda = l_total * iw + rotor;
+    for (std::size_t s = 0; s < times_s.size(); ++s) {
+      const cplx turn = std::polar(1.0, h * omega * (times_s[s] - t_start_s));
+      for (int k = 0; k < 3; ++k) {
+        out.linkage_wb[s][k] += std::real(lambda[k] * turn);
+        out.current_a[s][k] += std::real(iw[k] * turn);
+      }
+    }
   }
   return out;
 }

@@ -121,8 +121,10 @@ TEST_CASE("the eliminated loop equations solve the coupled field and circuit sys
 
 TEST_CASE("the start is the discrete periodic solution of a linear winding", "[solver][circuit]") {
   // One field unknown per branch with J = 1 and coupling c_k: ψ = s·c_k²·i, so the branch
-  // inductance matrix is diagonal, L_kk = s·c_k². Started from steady_state_linkages, a period
-  // of steps must end where it began: no transient at all.
+  // inductance matrix is diagonal, L_kk = s·c_k². An imposed source f_k(t), a balanced set
+  // turning at the supply frequency, stands for the rotor currents: its linkage is s·c_k·f_k.
+  // Started from steady_state_estimate, a period of steps must end where it began: no
+  // transient at all (the difference formula's periodic solution).
   const double s = 1.0, f = 50.0, spp = 40, dt = 1.0 / (f * spp);
   Eigen::MatrixXd c = Eigen::MatrixXd::Zero(3, 3);
   c.diagonal() << 0.2, 0.2, 0.2;
@@ -140,17 +142,34 @@ TEST_CASE("the start is the discrete periodic solution of a linear winding", "[s
       INFO("connection " << to_string(conn) << ", " << to_string(scheme));
       supply.connection = conn;
       WindingCircuit circuit(conn, z, scheme, s);
-      circuit.set_history(
-          steady_state_linkages(supply, conn, z, l, scheme, dt, 0.0, {-dt, -2 * dt}));
+      const double w = 2 * pi * f;
+      const auto rotor_source = [&](double t) {
+        Eigen::Vector3d v;
+        for (int k = 0; k < 3; ++k) v[k] = 30.0 * std::cos(w * t - k * 2 * pi / 3 + 2.5);
+        return v;
+      };
+      LinearWinding winding;
+      winding.inductance_h = l;
+      const Eigen::Vector3d rotor0 = s * (c.transpose() * rotor_source(0.0));
+      winding.rotor_linkage_wb = positive_sequence_amplitudes({rotor0[0], rotor0[1], rotor0[2]});
+      const SteadyStateEstimate start =
+          steady_state_estimate(supply, conn, z, winding, scheme, dt, 0.0, {-dt, -2 * dt});
+      circuit.set_history(start.linkage_wb);
       std::vector<Triple> currents;
       for (int step = 0; step <= spp; ++step) {
         const double t = step * dt;
         const LowRankTerm term = circuit.step_term(c, branch_source_voltages_v(supply, t), dt);
         const Eigen::MatrixXd jr =
             Eigen::MatrixXd::Identity(3, 3) + term.b * term.m * term.b.transpose();
-        const Eigen::VectorXd x = jr.ldlt().solve(term.b * term.w);
+        const Eigen::VectorXd x = jr.ldlt().solve(term.b * term.w + rotor_source(t));
         currents.push_back(circuit.finish_step(term, c, x, dt).branch_current_a);
       }
+      // The estimate's own currents one step before the start continue into the first step.
+      const SteadyStateEstimate at0 =
+          steady_state_estimate(supply, conn, z, winding, scheme, dt, 0.0, {0.0});
+      for (int k = 0; k < 3; ++k)
+        CHECK(at0.current_a[0][k] ==
+              Approx(currents[0][k]).margin(1e-9 * std::abs(currents[0][k]) + 1e-9));
       double largest = 0;
       for (double i : currents[0]) largest = std::max(largest, std::abs(i));
       REQUIRE(largest > 0.1);

@@ -35,10 +35,13 @@ struct RunRecord {
 };
 
 // The approach to periodic steady state: per whole electrical period from the first step, the
-// largest change of a phase's fundamental flux-linkage phasor from the period before, in % of
-// the largest phasor; reached when the last change is below the tolerance.
+// largest change of a phase's fundamental flux-linkage phasor from the period before, and the
+// largest DC part of a phase's flux linkage (what a start-up transient leaves, decaying with
+// L/R), both in % of the largest fundamental amplitude; reached when the last period's change
+// and DC part are both below the tolerance.
 struct SteadyStateIndicator {
   std::vector<double> change_pct;  // one per period after the first
+  std::vector<double> dc_pct;      // one per period
   double tolerance_pct = 0.0;
   bool reached = false;
 };

@@ -82,13 +82,31 @@ class WindingCircuit {
   std::vector<Triple> history_;  // newest first, at most two
 };
 
-// The linear steady state the start-up begins from: per harmonic of the branch source voltages
-// (found by a DFT over one period from t_start), the loop currents through
-// Tᵀ(R + s_h(L_end + L))T and the branch linkages Λ_h = (L_end + L)·T·I_h, with L the 3×3
-// branch inductance matrix of the unsaturated field and s_h the difference formula's response
-// to e^{jhωt} (→ jhω as Δt → 0). Returns Λ(t) at the given instants.
-std::vector<Triple> steady_state_linkages(const SupplySpec& supply, Connection connection,
-                                          BranchImpedance z, const Eigen::Matrix3d& inductance_h,
+// The winding as a linear circuit, for the start-up estimate: the 3×3 branch inductance matrix
+// (of the unsaturated field, or a secant of the saturated one) and the fundamental linkage the
+// imposed rotor currents make in each branch (complex amplitudes referred to the start, 0 when
+// the bars carry none).
+struct LinearWinding {
+  Eigen::Matrix3d inductance_h = Eigen::Matrix3d::Zero();
+  Eigen::Vector3cd rotor_linkage_wb = Eigen::Vector3cd::Zero();
+};
+
+// A positive-sequence set's complex amplitudes from one instant of it: X = (2/3)·Σ x_k·e^{jk2π/3}
+// and X_k = X·e^{−jk2π/3}, so that x_k(t) = Re(X_k·e^{jω(t − t0)}).
+Eigen::Vector3cd positive_sequence_amplitudes(const Triple& at_t0);
+
+struct SteadyStateEstimate {
+  std::vector<Triple> linkage_wb;  // total Λ per branch at each time asked
+  std::vector<Triple> current_a;   // branch currents at each time asked
+};
+
+// The linear periodic state the start-up begins from: per harmonic of the branch source
+// voltages (a DFT over one period from t_start), the loop currents through
+// Tᵀ(R + s_h(L_end + L))T·I = Tᵀ(E − s_h·Ψ_r) and the linkages Λ_h = (L_end + L)·T·I_h + Ψ_r
+// (Ψ_r at the fundamental only), with s_h the difference formula's response to e^{jhωt}
+// (→ jhω as Δt → 0). A linear winding started there has no transient at all.
+SteadyStateEstimate steady_state_estimate(const SupplySpec& supply, Connection connection,
+                                          BranchImpedance z, const LinearWinding& winding,
                                           TimeScheme scheme, double dt_s, double t_start_s,
                                           const std::vector<double>& times_s);
 
