@@ -49,6 +49,43 @@ def full_circle(f, name, squared=False):
     return np.array([np.concatenate([row * sign ** k for k in range(sectors)]) for row in b])
 
 
+def voltage_section(s, f):
+    """A voltage feed: line voltages and line currents over the last period, their sequences and
+    unbalance, the circuit and how settled the start is."""
+    spp = s["study"]["steps_per_period"]
+    t = f["steps/time"][-spp:].ravel() * 1e3
+    fig, (a1, a2) = plt.subplots(1, 2, figsize=(9, 3))
+    for k, (name, colour) in enumerate(zip(("ab", "bc", "ca"), (INK, ACCENT, MUTED))):
+        a1.plot(t, f["steps/line_voltage"][-spp:, k], color=colour, lw=1, label=name)
+    for k, (name, colour) in enumerate(zip("abc", (INK, ACCENT, MUTED))):
+        a2.plot(t, f["steps/line_current"][-spp:, k], color=colour, lw=1, label=name)
+    a1.set_xlabel("t (ms)"), a1.set_ylabel("line-to-line voltage (V)")
+    a2.set_xlabel("t (ms)"), a2.set_ylabel("line current (A)")
+    a1.legend(frameon=False, fontsize=8), a2.legend(frameon=False, fontsize=8)
+    sup, c, ss = s["supply"], s["circuit"], s.get("steady_state", {})
+    vs, ls = sup.get("voltage_sequence", {}), sup.get("line_current_sequence", {})
+    vu, cu = sup.get("unbalance", {}), sup.get("current_unbalance", {})
+    rows = [
+        ["connection", f'{c["connection"]} ({c["voltages_given"]} voltages given), {c["time_scheme"]}'],
+        ["R, L_end per branch", f'{c["phase_resistance_ohm"]:.4g} Ω' +
+         (" (given)" if c["resistance_given"] else " (from the winding)") +
+         f', {c["end_winding_inductance_h"] * 1e3:.4g} mH' +
+         (" (estimated)" if c["end_winding_inductance_estimated"] else " (given)")],
+        ["supply voltage, fundamental", f'positive {vs.get("positive_v", 0):.4g} V, negative '
+         f'{vs.get("negative_v", 0):.4g} V, zero {vs.get("zero_v", 0):.4g} V; VUF '
+         f'{vu.get("vuf_pct", 0):.3f} %, LVUR {vu.get("lvur_pct", 0):.3f} %, PVUR {vu.get("pvur_pct", 0):.3f} %'],
+        ["line current, fundamental", f'positive {ls.get("positive_a", 0):.4g} A, negative '
+         f'{ls.get("negative_a", 0):.4g} A, zero {ls.get("zero_a", 0):.4g} A; VUF '
+         f'{cu.get("vuf_pct", 0):.3f} %'],
+        ["steady state (last period)", f'flux-linkage change {ss.get("last_change_pct") or 0:.3g} %, DC part '
+         f'{ss.get("last_dc_pct") or 0:.3g} % ({"within" if ss.get("reached") else "NOT within"} '
+         f'{ss.get("tolerance_pct", 0):g} %)'],
+    ]
+    return ("<h2>Voltage feed</h2>" + table_html(["item", "value"], rows) +
+            figure_html(fig, "Line-to-line supply voltages and line currents over the last period") +
+            "<div class='caution'>" + html.escape(c["model"]) + "</div>")
+
+
 def main(out):
     s = json.load(open(os.path.join(out, "summary.json")))
     f = h5py.File(os.path.join(out, "results.h5"), "r")
@@ -70,6 +107,8 @@ def main(out):
     ]))
     parts.append("<div class='caution'><b>Cautions.</b> " +
                  " ".join(html.escape(c) for c in s.get("cautions", [])) + "</div>")
+    if sup.get("feed") == "voltage":
+        parts.append(voltage_section(s, f))
 
     # B_r(θ) at three instants.
     br = full_circle(f, "steps/airgap_B_r")

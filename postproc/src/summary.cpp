@@ -339,8 +339,13 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
          "and licensed engineering practice, not these figures alone."}};
   }
   j["cautions"] = {
-      "Results come from a 2-D magnetostatic model with imposed currents; the cage's own induced "
-      "currents, end effects, skew and temperature rise are not modelled.",
+      s.voltage_fed
+          ? "Results come from a 2-D magnetostatic model of the field coupled with the winding's "
+            "circuit; the cage's own induced currents are not modelled, so negative-sequence and "
+            "harmonic currents are far below what the motor would draw (its cage would carry "
+            "them), and end effects, skew and temperature rise are not modelled either."
+          : "Results come from a 2-D magnetostatic model with imposed currents; the cage's own "
+            "induced currents, end effects, skew and temperature rise are not modelled.",
       "Decisions on derating, protection settings or continued operation of a motor follow the "
       "applicable standards and local codes, the motor's maker and licensed engineering practice, "
       "not these figures alone."};
