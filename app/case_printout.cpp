@@ -1,5 +1,7 @@
 #include "case_printout.hpp"
 
+#include "solver/winding_resistance.hpp"
+
 #include "postproc/sequences.hpp"
 
 #include <fmt/format.h>
@@ -194,6 +196,15 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
   }
   const WindingLayout& lay = lam.winding;
   fmt::print(out, "series_turns_per_phase = {:g}\n", lay.series_turns_per_phase);
+  {
+    const WindingResistance r = phase_resistance(c, lam, resolve_region_materials(c).coils);
+    fmt::print(out, "phase_resistance_ohm = {:.6g}  # {}\n", r.resistance_ohm,
+               r.resistance_given
+                   ? "given"
+                   : fmt::format("DC, at {:g} °C, from the winding's geometry", r.temperature_c));
+    fmt::print(out, "end_winding_inductance_mh = {:.6g}  # {}\n", r.end_inductance_h * 1e3,
+               r.end_inductance_estimated ? "rough estimate (voltage feed only)" : "given");
+  }
   fmt::print(out, "phase_axes_mech_deg = [{:.3f}, {:.3f}, {:.3f}]  # a, b, c magnetic axes\n",
              lay.phase_axis_el_rad[0] * to_deg / lay.pole_pairs,
              lay.phase_axis_el_rad[1] * to_deg / lay.pole_pairs,
