@@ -17,6 +17,7 @@ import numpy as np
 
 gapflux, examples, tmp = sys.argv[1:4]
 os.makedirs(tmp, exist_ok=True)
+from processes import run_and_kill
 from tally import check, finish
 
 
@@ -35,14 +36,8 @@ run = subprocess.run([gapflux, "run", case, "--out", whole], capture_output=True
 check(run.returncode == 0, f"uninterrupted run failed: {run.stderr}")
 
 # Kill once three steps have been reported (the log line follows the step's flush).
-proc = subprocess.Popen([gapflux, "run", case, "--out", killed], stdout=subprocess.DEVNULL,
-                        stderr=subprocess.PIPE, text=True)
-for line in proc.stderr:
-    if line.startswith("step 3/"):
-        proc.send_signal(signal.SIGKILL)
-        break
-proc.wait()
-check(proc.returncode == -signal.SIGKILL, f"the run was not killed (exit {proc.returncode})")
+status = run_and_kill([gapflux, "run", case, "--out", killed], 3)
+check(status == -signal.SIGKILL, f"the run was not killed (exit {status})")
 
 with h5py.File(os.path.join(killed, "results.h5"), "r") as f:
     done = int(f.attrs["steps_done"])
