@@ -11,7 +11,9 @@ coarse mesh. Each check states its outside reference:
   BDF2 at 72 steps per period shifts jω by about (ωΔt)²/3 = 0.25 %, tolerance 1 %; first-order
   triangles on a coarse mesh throughout, as these laws hold on any mesh);
 - a balanced voltage set drives balanced currents through the saturated winding (negative
-  sequence below 0.1 % of positive; the winding and lamination are symmetric);
+  sequence below 0.1 % of positive; the winding and lamination are symmetric); the stored
+  winding voltages equal R·i + BDF2's dΛ/dt rebuilt from the stored currents and flux linkages,
+  and differ from the supply's phase voltages by one common star-point voltage (KVL), to 1e-9;
 - Faraday's law: with negligible resistance and no end-winding leakage the fundamental flux
   linkage is V_phase,peak/ω to 1 % at every level (72 steps per period: BDF2's own 0.25 %), and
   above the knee the magnetising current per volt grows with the voltage as the iron saturates
@@ -143,6 +145,20 @@ check(s["steady_state"]["period_dc_pct"][0] < 1.0,
       f"saturated start: DC flux {s['steady_state']['period_dc_pct'][0]:.3f} % of the fundamental")
 print(f"balanced: I1 = {abs(p1):.4f} A, I2/I1 = {abs(n1 / p1):.2e}, peak |B| "
       f"{s['saturation']['peak_tesla']:.3f} T, start DC flux {s['steady_state']['period_dc_pct'][0]:.3f} %")
+# The stored outputs obey the circuit equations (read back independently): each winding's
+# voltage is R·i + BDF2's dΛ/dt with Λ = L_end·i + ψ from the stored datasets, and an isolated
+# star's windings see the supply's phase voltages less one common (star-point) voltage (KVL).
+i_w, psi_w, v_w = (f[d][...] for d in ("steps/phase_current", "steps/flux_linkage",
+                                       "steps/winding_voltage"))
+r_ohm, l_h = f["circuit/impedance"][...]
+lam = l_h * i_w + psi_w
+law = r_ohm * i_w[2:] + (1.5 * lam[2:] - 2 * lam[1:-1] + 0.5 * lam[:-2]) / f.attrs["dt_s"]
+gap = np.abs(law - v_w[2:]).max() / np.abs(v_w).max()
+check(gap < 1e-9, f"winding voltages depart from R·i + dΛ/dt by {gap:.2e}")
+shift = v_w - f["steps/supply_voltage"][...]
+common = np.abs(shift - shift.mean(axis=1, keepdims=True)).max() / np.abs(v_w).max()
+check(common < 1e-9, f"isolated star: winding and supply voltages differ by more than a common "
+      f"star-point voltage ({common:.2e})")
 balanced_teeth = {zn["tooth"]: zn for zn in s["saturation"]["regions"]
                   if zn["name"].startswith("stator tooth ") and "tip" not in zn["name"]}
 axis_a = np.radians(s["winding"]["phase_axis_deg_el"][0])
