@@ -92,9 +92,17 @@ void run_baseline(const std::string& case_path, const std::string& out_dir,
   RunSummary run = study.summary();
   if (!run.analysis || run.analysis->periods < 1)
     throw std::runtime_error("--baseline needs at least one whole retained electrical period");
-  const HarmonicPhasors* f = find_order(run.analysis->current, 1.0);
-  if (!f) throw std::runtime_error("--baseline: the run has no fundamental current");
+  // A voltage feed keeps its connection and gets balanced phase voltages at the supply's
+  // positive-sequence fundamental; a current feed balanced currents at the currents' one.
+  const SupplySpec given = read_case_file(case_path).supply;
+  const bool voltage = given.voltage_fed();
+  const HarmonicPhasors* f =
+      find_order(voltage ? run.analysis->supply_voltage : run.analysis->current, 1.0);
+  if (!f) throw std::runtime_error("--baseline: the run has no fundamental");
   SupplySpec balanced;
+  balanced.feed = given.feed;
+  balanced.connection = given.connection;
+  balanced.voltage_basis = VoltageBasis::phase;
   balanced.frequency_hz = run.frequency_hz;
   balanced.form = SupplyForm::phases;
   balanced.rms = std::abs(f->sequences.positive);
@@ -102,14 +110,15 @@ void run_baseline(const std::string& case_path, const std::string& out_dir,
   for (int k = 0; k < 3; ++k)
     balanced.phases[k] = {balanced.rms, angle - k * 2.0 * std::numbers::pi / 3.0};
   const std::string dir = (std::filesystem::path(out_dir) / "baseline").string();
-  fmt::print("\n== baseline: balanced {:.4g} A at {:.2f}°, no harmonics, into {}\n", balanced.rms,
-             angle * 180.0 / std::numbers::pi, dir);
+  fmt::print("\n== baseline: balanced {:.4g} {} at {:.2f}°, no harmonics, into {}\n", balanced.rms,
+             voltage ? "V (phase)" : "A", angle * 180.0 / std::numbers::pi, dir);
   TransientStudy base(case_path, dir, false);
   base.override_supply(balanced);
   base.run();
   BaselineComparison c = compare_with_baseline(run, base.summary());
   c.baseline_dir = dir;
-  c.fundamental_rms_a = balanced.rms;
+  c.fundamental_rms = balanced.rms;
+  c.voltage_fed = voltage;
   c.fundamental_angle_deg = angle * 180.0 / std::numbers::pi;
   run.baseline = c;
   write_summary_json(study.summary_path(), run);

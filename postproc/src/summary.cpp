@@ -317,9 +317,12 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
     j["baseline"] = {
         {"dir", b.baseline_dir},
         {"supply",
-         {{"rms_a", b.fundamental_rms_a},
+         {{b.voltage_fed ? "rms_v" : "rms_a", b.fundamental_rms},
           {"angle_deg", b.fundamental_angle_deg},
-          {"what", "balanced, harmonic-free, the run's positive-sequence fundamental"}}},
+          {"what", b.voltage_fed
+                       ? "balanced, harmonic-free phase voltages at the run's "
+                         "positive-sequence supply fundamental, same connection"
+                       : "balanced, harmonic-free, the run's positive-sequence fundamental"}}},
         {"losses",
          {{"iron_w", change(b.iron_w, b.baseline_iron_w)},
           {"copper_w", change(b.copper_w, b.baseline_copper_w)},
@@ -330,10 +333,16 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
         {"saturation", zones},
         {"added_waves", waves},
         {"guidance",
-         "NEMA MG-1 (from memory) advises against running above 1 % voltage unbalance and derates "
-         "the rated power beyond it (to about 0.82 at 4 % and 0.75 at 5 %); IEC 60034-26 gives a "
-         "similar curve. Both refer to voltage unbalance at the terminals; a current-fed run "
-         "reports current unbalance, so compare losses, not the percentages."},
+         std::string("NEMA MG-1 (from memory) advises against running above 1 % voltage "
+                     "unbalance and derates the rated power beyond it (to about 0.82 at 4 % and "
+                     "0.75 at 5 %); IEC 60034-26 gives a similar curve. Both refer to voltage "
+                     "unbalance at the terminals; ") +
+             (b.voltage_fed
+                  ? "this voltage-fed run reports it (supply.unbalance), but without the cage's "
+                    "induced currents the added losses here miss the rotor's negative-sequence "
+                    "share, which dominates the derating in a real motor."
+                  : "a current-fed run reports current unbalance, so compare losses, not the "
+                    "percentages.")},
         {"caution",
          "Derating and protection decisions follow the standards, local codes, the motor's maker "
          "and licensed engineering practice, not these figures alone."}};

@@ -14,6 +14,8 @@ coarse mesh. Each check states its outside reference:
   sequence below 0.1 % of positive; the winding and lamination are symmetric); the stored
   winding voltages equal R·i + BDF2's dΛ/dt rebuilt from the stored currents and flux linkages,
   and differ from the supply's phase voltages by one common star-point voltage (KVL), to 1e-9;
+  its `--baseline` (balanced phase voltages at the run's positive sequence, same connection)
+  differs from it by nothing (1e-9 of the losses);
 - Faraday's law: with negligible resistance and no end-winding leakage the fundamental flux
   linkage is V_phase,peak/ω to 1 % at every level (72 steps per period: BDF2's own 0.25 %), and
   above the knee the magnetising current per volt grows with the voltage as the iron saturates
@@ -86,12 +88,13 @@ def winding(extra):
     return base.rstrip() + "\n" + extra + "\n"
 
 
-def run(name, supply, spp=36, scheme="bdf2", iron="", impedance=IMPEDANCE):
+def run(name, supply, spp=36, scheme="bdf2", iron="", impedance=IMPEDANCE, flags=()):
     case = os.path.join(tmp, name + ".toml")
     open(case, "w").write(winding(impedance) + iron + MESH + supply + study(spp, scheme))
     out = os.path.join(tmp, name)
     shutil.rmtree(out, ignore_errors=True)
-    r = subprocess.run([gapflux, "run", case, "--out", out], capture_output=True, text=True)
+    r = subprocess.run([gapflux, "run", case, "--out", out, *flags], capture_output=True,
+                       text=True)
     check(r.returncode == 0, f"{name}: run failed ({r.returncode}): {r.stderr[-2000:]}")
     f = h5py.File(os.path.join(out, "results.h5"), "r")
     return f, json.load(open(os.path.join(out, "summary.json")))
@@ -135,7 +138,15 @@ print(f"zero sequence: isolated star {i_isolated:.2e} A; with neutral {i0_neutra
 
 # --- balanced voltages through the saturated winding -----------------------------------------
 V_PHASE = 46.0  # V RMS line-to-neutral: the reference teeth well past the steel's knee
-f, s = run("balanced", f'[supply]\nfeed = "voltage"\nvoltages = "phase"\nrms_v = {V_PHASE}\n')
+f, s = run("balanced", f'[supply]\nfeed = "voltage"\nvoltages = "phase"\nrms_v = {V_PHASE}\n',
+           flags=("--baseline",))
+# Its balanced baseline keeps the voltage feed and the connection, at the same phase voltage:
+# no difference.
+compared = s["baseline"]
+check(abs(compared["supply"]["rms_v"] - V_PHASE) < 1e-9 * V_PHASE,
+      f"baseline voltage {compared['supply']}")
+check(abs(compared["losses"]["total_w"]["change"]) < 1e-9 * compared["losses"]["total_w"]["baseline"],
+      f"a balanced voltage feed differs from its baseline: {compared['losses']['total_w']}")
 z, p1, n1 = sequences(phasors(f["steps/phase_current"], 36))
 check(abs(n1) < 1e-3 * abs(p1), f"balanced voltages: negative/positive current {abs(n1 / p1):.2e}")
 check(s["saturation"]["peak_tesla"] > s["saturation"]["threshold_tesla"],

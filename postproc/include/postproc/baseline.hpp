@@ -22,7 +22,9 @@ struct AddedWave {
 
 struct BaselineComparison {
   std::string baseline_dir;
-  double fundamental_rms_a = 0.0, fundamental_angle_deg = 0.0;  // the baseline's set (phase a)
+  // The baseline's set (phase a): RMS current, or RMS phase voltage for a voltage feed.
+  double fundamental_rms = 0.0, fundamental_angle_deg = 0.0;
+  bool voltage_fed = false;
   double iron_w = 0, baseline_iron_w = 0, copper_w = 0, baseline_copper_w = 0;
   double torque_mean_nm = 0, baseline_torque_mean_nm = 0;
   double ripple_pct = 0, baseline_ripple_pct = 0;
