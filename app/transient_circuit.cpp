@@ -67,6 +67,10 @@ void TransientStudy::start_circuit(MagnetostaticSystem& system, const RegionMode
   // the start, so the start carries no DC flux that would take L/R to decay. system.x() keeps
   // the last solve: the first step's warm start.
   circuit_->set_history({estimate.linkage_wb[1], estimate.linkage_wb[2]});
+  const Triple& h1 = estimate.linkage_wb[1];
+  const Triple& h2 = estimate.linkage_wb[2];
+  h5_->write("circuit/start_history", std::vector<double>{h1[0], h1[1], h1[2], h2[0], h2[1], h2[2]},
+             "Wb");
   h5_->write("circuit/start_inductance",
              std::vector<double>(unsaturated.data(), unsaturated.data() + 9), "H");
   h5_->attribute("circuit/start_inductance", "secant_factor", secant);

@@ -134,6 +134,11 @@ int TransientStudy::open_results() {
             l[k] = impedance_.end_inductance_h * i[n * 3 + k] + psi[n * 3 + k];
           history.push_back(l);
         }
+        // After one step, the start's virtual history still counts (BDF2 needs two values).
+        if (done == 1 && h5_->exists("circuit/start_history")) {
+          const std::vector<double> v = h5_->read("circuit/start_history");
+          history.push_back({v[0], v[1], v[2]});
+        }
         circuit_->set_history(history);
       }
     }
