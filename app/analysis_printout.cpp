@@ -7,6 +7,32 @@
 #include <numbers>
 
 namespace gapflux {
+namespace {
+
+void print_unbalance(std::FILE* out, const char* what, const UnbalanceMetrics& u) {
+  fmt::print(out, "  {} VUF {:.3f} %  LVUR {:.3f} %  PVUR {:.3f} %\n", what, u.vuf_pct, u.lvur_pct,
+             u.pvur_pct);
+}
+
+// Per time order: the three phases' RMS and the Fortescue sequences, `unit` A or V.
+void print_sequence_rows(std::FILE* out, const std::vector<HarmonicPhasors>& rows, const char* unit,
+                         int at_most) {
+  const char* x = unit[0] == 'V' ? "V" : "I";
+  fmt::print(out, "  {:>7}  {:>10} {:>10} {:>10}   {:>10} {:>10} {:>10}\n", "order",
+             fmt::format("|{}a| {}", x, unit), fmt::format("|{}b| {}", x, unit),
+             fmt::format("|{}c| {}", x, unit), fmt::format("pos {}", unit),
+             fmt::format("neg {}", unit), fmt::format("zero {}", unit));
+  int shown = 0;
+  for (const HarmonicPhasors& h : rows) {
+    if (++shown > at_most) break;
+    fmt::print(out, "  {:>7.3g}  {:>10.4g} {:>10.4g} {:>10.4g}   {:>10.4g} {:>10.4g} {:>10.4g}\n",
+               h.order, std::abs(h.abc[0]), std::abs(h.abc[1]), std::abs(h.abc[2]),
+               std::abs(h.sequences.positive), std::abs(h.sequences.negative),
+               std::abs(h.sequences.zero));
+  }
+}
+
+}  // namespace
 
 void print_analysis_table(std::FILE* out, const RunAnalysis& a, double torque_mean_nm,
                           double torque_ripple_pct) {
@@ -17,41 +43,17 @@ void print_analysis_table(std::FILE* out, const RunAnalysis& a, double torque_me
   fmt::print(out, "\nsupply response over {} electrical period(s) from t = {:.6g} s\n", a.periods,
              a.window_start_s);
   if (!a.supply_voltage.empty()) {
-    const auto& v = a.voltage_unbalance;
-    fmt::print(out, "  supply voltage unbalance: VUF {:.3f} %  LVUR {:.3f} %  PVUR {:.3f} %\n",
-               v.vuf_pct, v.lvur_pct, v.pvur_pct);
-    const auto& l = a.line_current_unbalance;
-    fmt::print(out, "  line current unbalance:   VUF {:.3f} %  LVUR {:.3f} %  PVUR {:.3f} %\n",
-               l.vuf_pct, l.lvur_pct, l.pvur_pct);
-    fmt::print(out, "  {:>7}  {:>10} {:>10} {:>10}   {:>10} {:>10} {:>10}\n", "order", "|Va| V",
-               "|Vb| V", "|Vc| V", "pos V", "neg V", "zero V");
-    int shown = 0;
-    for (const HarmonicPhasors& h : a.supply_voltage) {
-      if (++shown > 6) break;
-      fmt::print(out, "  {:>7.3g}  {:>10.4g} {:>10.4g} {:>10.4g}   {:>10.4g} {:>10.4g} {:>10.4g}\n",
-                 h.order, std::abs(h.abc[0]), std::abs(h.abc[1]), std::abs(h.abc[2]),
-                 std::abs(h.sequences.positive), std::abs(h.sequences.negative),
-                 std::abs(h.sequences.zero));
-    }
+    print_unbalance(out, "supply voltage unbalance:", a.voltage_unbalance);
+    print_unbalance(out, "line current unbalance:  ", a.line_current_unbalance);
+    print_sequence_rows(out, a.supply_voltage, "V", 6);
     fmt::print(out, "  winding (branch) currents:\n");
   }
-  const auto& u = a.current_unbalance;
-  fmt::print(out, "  current unbalance: VUF {:.3f} %  LVUR {:.3f} %  PVUR {:.3f} %\n", u.vuf_pct,
-             u.lvur_pct, u.pvur_pct);
-  fmt::print(out, "  {:>7}  {:>10} {:>10} {:>10}   {:>10} {:>10} {:>10}\n", "order", "|Ia| A",
-             "|Ib| A", "|Ic| A", "pos A", "neg A", "zero A");
-  int shown = 0;
-  for (const HarmonicPhasors& h : a.current) {
-    if (++shown > 10) break;
-    fmt::print(out, "  {:>7.3g}  {:>10.4g} {:>10.4g} {:>10.4g}   {:>10.4g} {:>10.4g} {:>10.4g}\n",
-               h.order, std::abs(h.abc[0]), std::abs(h.abc[1]), std::abs(h.abc[2]),
-               std::abs(h.sequences.positive), std::abs(h.sequences.negative),
-               std::abs(h.sequences.zero));
-  }
+  print_unbalance(out, "current unbalance:", a.current_unbalance);
+  print_sequence_rows(out, a.current, "A", 10);
   fmt::print(out, "  largest airgap waves (B_r at mid-gap):\n");
   fmt::print(out, "  {:>6} {:>7} {:>8} {:>10} {:>10}  {}\n", "ν el", "m mech", "h (×f)",
              "direction", "B T", "reading");
-  shown = 0;
+  int shown = 0;
   for (const LabelledWave& lw : a.waves) {
     if (++shown > 10) break;
     const Wave& w = lw.wave;
