@@ -52,9 +52,9 @@ NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const 
   const auto total_residual = [&](const Eigen::VectorXd& at) {
     residual = assembler.residual();
     if (!low_rank) return 0.0;
-    const Eigen::VectorXd i = low_rank->currents(at);
-    residual -= low_rank->b * i;
-    return (low_rank->b * i).norm();
+    const Eigen::VectorXd coil_load = low_rank->b * low_rank->currents(at);
+    residual -= coil_load;
+    return coil_load.norm();
   };
 
   const auto t_analyse = std::chrono::steady_clock::now();
