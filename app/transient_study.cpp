@@ -86,9 +86,9 @@ void TransientStudy::set_up() {
   grid_ = make_time_grid(case_, mesh_.stator_ring.pitch_rad);
   airgap_samples_ =
       case_.output.airgap_samples > 0 ? case_.output.airgap_samples : default_airgap_samples(mesh_);
+  winding_r_ = phase_resistance(case_, lamination_, materials_.coils);
   if (case_.supply.voltage_fed()) {
-    const WindingResistance r = phase_resistance(case_, lamination_, materials_.coils);
-    impedance_ = {r.resistance_ohm, r.end_inductance_h};
+    impedance_ = {winding_r_.resistance_ohm, winding_r_.end_inductance_h};
     circuit_ = std::make_unique<WindingCircuit>(
         case_.supply.connection, impedance_, case_.study.time_scheme,
         case_.machine.stack_length_m * mesh_.symmetry.sectors);
@@ -341,7 +341,7 @@ void TransientStudy::finish(const std::string& failure) {
     s.connection = to_string(case_.supply.connection);
     s.voltage_basis = to_string(case_.supply.voltage_basis);
     s.time_scheme = to_string(case_.study.time_scheme);
-    const WindingResistance r = phase_resistance(case_, lamination_, materials_.coils);
+    const WindingResistance& r = winding_r_;
     s.phase_resistance_ohm = r.resistance_ohm;
     s.resistance_given = r.resistance_given;
     s.end_inductance_h = r.end_inductance_h;
@@ -354,7 +354,7 @@ void TransientStudy::finish(const std::string& failure) {
     s.iron_stator_w = iron_loss_.stator_w;
     s.iron_rotor_w = iron_loss_.rotor_w;
     // Copper: I²R per phase with the RMS over the same period (harmonics included).
-    const WindingResistance r = phase_resistance(case_, lamination_, materials_.coils);
+    const WindingResistance& r = winding_r_;
     const std::vector<double> i = h5_->read("steps/phase_current");
     const int spp = grid_.steps_per_period;
     s.copper_w = 0.0;

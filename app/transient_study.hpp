@@ -21,6 +21,7 @@
 #include "solver/circuit.hpp"
 #include "solver/magnetostatic_system.hpp"
 #include "solver/time_grid.hpp"
+#include "solver/winding_resistance.hpp"
 #include "solver/winding_sources.hpp"
 
 namespace gapflux {
@@ -63,6 +64,7 @@ class TransientStudy {
   std::optional<SupplySpec> supply_override_;
   std::unique_ptr<WindingCircuit> circuit_;  // voltage feed only
   BranchImpedance impedance_;
+  WindingResistance winding_r_;  // the phase resistance and end-winding data, once per run
   RunSummary summary_;
   std::unique_ptr<ResultsFile> h5_;
   Eigen::VectorXd x_last_;  // the last step's solution (warm start)
