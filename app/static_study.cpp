@@ -73,6 +73,7 @@ void StaticStudy::solve() {
   settings.max_iterations = case_.solver.max_iterations;
   settings.residual_tolerance = case_.solver.residual_tolerance;
   settings.update_tolerance = case_.solver.update_tolerance;
+  settings.cg_budget = case_.solver.cg_budget;
   report_ = system_->solve(model_, settings);
 }
 
@@ -168,6 +169,8 @@ void StaticStudy::write_output(const std::string& failure) {
     s.b_peak_tesla = std::max(s.b_peak_tesla, fields.b_abs_tesla[t]);
   s.steps = failure.empty() ? 1 : 0;
   s.newton_iterations = report_.iterations;
+  s.newton_factorizations = report_.factorizations;
+  s.cg_iterations = report_.cg_iterations;
   s.converged = failure.empty();
   s.wall_s = now_s() - wall_start_s_;
   for (const NewtonIteration& it : report_.history) {
@@ -180,8 +183,9 @@ void StaticStudy::write_output(const std::string& failure) {
   fmt::print("case: {}\n", case_.machine.name);
   fmt::print("mesh: order {}, {} triangles, {} dofs, sector 1 of {}\n", mesh_.order,
              quality.triangles, assembler.n_dofs(), sectors);
-  fmt::print("newton: {} iteration(s), relative residual {:.2e}{}\n", report_.iterations,
-             report_.relative_residual, failure.empty() ? "" : " (not converged)");
+  fmt::print("newton: {} iteration(s), {} with a new factor, relative residual {:.2e}{}\n",
+             report_.iterations, report_.factorizations, report_.relative_residual,
+             failure.empty() ? "" : " (not converged)");
   fmt::print(
       "currents a/b/c: {:.3f} {:.3f} {:.3f} A; flux linkage a/b/c: {:.5f} {:.5f} {:.5f} Wb\n",
       phase_current_a_[0], phase_current_a_[1], phase_current_a_[2], psi[0], psi[1], psi[2]);

@@ -117,6 +117,18 @@ int TransientStudy::open_results() {
       for (const char* d : {"steps/winding_voltage", "steps/line_current", "steps/line_voltage",
                             "steps/supply_voltage"})
         if (h5_->exists(d)) h5_->truncate_rows(d, static_cast<std::size_t>(done));
+    for (const char* d : {"steps/newton_factorizations", "steps/cg_iterations"})
+      if (h5_->exists(d)) h5_->truncate_rows(d, static_cast<std::size_t>(done));
+    // The solver's totals carry over, so the summary counts the whole run.
+    const auto total_of = [&](const char* d) {
+      if (done == 0 || !h5_->exists(d)) return 0;
+      double sum = 0.0;
+      for (double v : h5_->read(d)) sum += v;
+      return static_cast<int>(sum);
+    };
+    newton_total_ = total_of("steps/newton_iterations");
+    factorizations_total_ = total_of("steps/newton_factorizations");
+    cg_total_ = total_of("steps/cg_iterations");
     steps_done_ = static_cast<int>(done);
     if (done > 0) {
       const std::vector<double> x = h5_->read("restart/x");
@@ -195,6 +207,7 @@ void TransientStudy::step(int n) {
   settings.max_iterations = case_.solver.max_iterations;
   settings.residual_tolerance = case_.solver.residual_tolerance;
   settings.update_tolerance = case_.solver.update_tolerance;
+  settings.cg_budget = case_.solver.cg_budget;
   std::array<double, 3> currents{0, 0, 0};
   WindingCircuit::StepResult circuit_step;
   NewtonReport report;
@@ -212,6 +225,8 @@ void TransientStudy::step(int n) {
   }
   newton_last_ = report.iterations;
   newton_total_ += report.iterations;
+  factorizations_total_ += report.factorizations;
+  cg_total_ += report.cg_iterations;
 
   // Post-processing of this step.
   const double stack = case_.machine.stack_length_m;
@@ -246,6 +261,8 @@ void TransientStudy::step(int n) {
     h5_->append_row("steps/supply_voltage", {phase_v.begin(), phase_v.end()}, "V");
   }
   h5_->append_row("steps/newton_iterations", {double(report.iterations)}, "1");
+  h5_->append_row("steps/newton_factorizations", {double(report.factorizations)}, "1");
+  h5_->append_row("steps/cg_iterations", {double(report.cg_iterations)}, "1");
   h5_->append_row("steps/airgap_B_r", s.b_r_tesla, "T");
   h5_->append_row("steps/airgap_B_theta", s.b_theta_tesla, "T");
   h5_->append_row("steps/radial_force_density", sigma, "N/m^2");
@@ -328,6 +345,8 @@ void TransientStudy::finish(const std::string& failure) {
   }
   s.steps = done;
   s.newton_iterations = newton_total_;
+  s.newton_factorizations = factorizations_total_;
+  s.cg_iterations = cg_total_;
   s.converged = failure.empty();
   s.failure = failure;
   s.wall_s = now_s() - wall_start_s_;
@@ -377,8 +396,9 @@ void TransientStudy::finish(const std::string& failure) {
   fmt::print("case: {}\n", case_.machine.name);
   fmt::print(
       "time stepping: {} steps ({} per period, dt {:.3e} s), rotor {:.2f} rpm, {} Newton "
-      "iterations\n",
-      done, grid_.steps_per_period, grid_.dt_s, s.mechanical_speed_rpm, newton_total_);
+      "iterations, {} of them with a new factor\n",
+      done, grid_.steps_per_period, grid_.dt_s, s.mechanical_speed_rpm, newton_total_,
+      factorizations_total_);
   if (s.torque_available)
     fmt::print(
         "torque (Arkkio, over {} retained steps): mean {:.4f} N·m, min {:.4f}, max {:.4f}, ripple "

@@ -72,6 +72,8 @@ class TransientStudy {
   bool have_last_ = false;
   int shift_last_ = 0;  // band shift of the last step
   int newton_total_ = 0;
+  int factorizations_total_ = 0;
+  int cg_total_ = 0;
   int newton_last_ = 0;
   int steps_done_ = 0;
   double wall_start_s_ = 0.0;

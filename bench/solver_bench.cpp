@@ -135,7 +135,7 @@ void run_stepping(const std::string& path, int steps, bool history) {
   const TimeGrid grid = make_time_grid(c, mesh.stator_ring.pitch_rad);
   const double omega = 2 * std::numbers::pi * c.supply.frequency_hz;
   double remesh = 0, assembly = 0, factor = 0, solve = 0, post = 0, wall = 0;
-  int iterations = 0, analyses = 0;
+  int iterations = 0, analyses = 0, factorizations = 0, krylov = 0;
   double band_residual = 0, other_residual = 0;
   Eigen::VectorXd last;
   int last_shift = 0;
@@ -176,9 +176,13 @@ void run_stepping(const std::string& path, int steps, bool history) {
     if (history)
       for (const NewtonIteration& it : report.history)
         fmt::print(
-            "    step {} iteration {}: residual {:.3e}, line-search step {:.3f}, update {:.3e}\n",
-            n, it.iteration, it.relative_residual, it.step, it.relative_update);
+            "    step {} iteration {}: residual {:.3e}, line-search step {:.3f}, update {:.3e}, "
+            "{}, CG {}\n",
+            n, it.iteration, it.relative_residual, it.step, it.relative_update,
+            it.factorized ? "new factor" : "earlier factor", it.cg_iterations);
     iterations += report.iterations;
+    factorizations += report.factorizations;
+    krylov += report.cg_iterations;
     analyses += report.analysed;
     for (const NewtonIteration& it : report.history) {
       assembly += it.assembly_s;
@@ -204,9 +208,11 @@ void run_stepping(const std::string& path, int steps, bool history) {
       "+ solve {:.3f} + post-processing {:.3f}\n",
       wall / steps, remesh / steps, assembly / steps, factor / steps, solve / steps, post / steps);
   fmt::print(
-      "  Newton iterations per step {:.2f}; symbolic analyses {} of {} steps; per electrical "
-      "period {:.1f} s\n",
-      double(iterations) / steps, analyses, steps, wall / steps * grid.steps_per_period);
+      "  Newton iterations per step {:.2f}, of them with a new factorisation {:.2f} (the others "
+      "by CG on an earlier factor, {:.1f} CG iterations per step); symbolic analyses {} of {} "
+      "steps; per electrical period {:.1f} s\n",
+      double(iterations) / steps, double(factorizations) / steps, double(krylov) / steps, analyses,
+      steps, wall / steps * grid.steps_per_period);
   fmt::print(
       "  warm-start relative residual ‖r‖/‖f‖ (mean over steps 2…): {:.3e} on the band's "
       "nodes, {:.3e} elsewhere\n",

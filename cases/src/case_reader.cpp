@@ -338,6 +338,7 @@ SolverSpec parse_solver(std::optional<TableReader> t) {
   s.max_iterations = integer_in(*t, "max_iterations", 30, 1, 1000);
   s.residual_tolerance = number_in(*t, "residual_tolerance", 1e-8, 1e-15, 1e-2, "");
   s.update_tolerance = number_in(*t, "update_tolerance", 1e-8, 1e-15, 1e-2, "");
+  s.cg_budget = integer_in(*t, "cg_budget", 20, 0, 1000);
   t->finish();
   return s;
 }

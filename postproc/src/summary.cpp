@@ -167,6 +167,8 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
   j["airgap"] = {{"radius_m", s.airgap_radius_m}};
   j["solver"] = {{"steps", s.steps},
                  {"newton_iterations", s.newton_iterations},
+                 {"newton_factorizations", s.newton_factorizations},
+                 {"cg_iterations", s.cg_iterations},
                  {"converged", s.converged},
                  {"wall_s", s.wall_s},
                  {"residual_history", s.residual_history},

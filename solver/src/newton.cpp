@@ -1,8 +1,8 @@
 #include "solver/newton.hpp"
 
-#include <fmt/format.h>
+#include "newton_step_solver.hpp"
 
-#include <Eigen/Dense>
+#include <fmt/format.h>
 
 #include <algorithm>
 #include <chrono>
@@ -62,6 +62,8 @@ NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const 
   report.analyse_s = seconds_since(t_analyse);
 
   double last_update = 1.0;
+  NewtonStepSolver step_solver(assembler, cholesky, low_rank);
+  int last_cg = 0;  // CG iterations of the last step on the factor held (< 0: it failed)
   for (int it = static_cast<int>(report.history.size());; ++it) {
     NewtonIteration record;
     record.iteration = it;
@@ -95,37 +97,53 @@ NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const 
                            report);
     }
 
-    t0 = std::chrono::steady_clock::now();
-    const FactorResult factor = cholesky.factorize(assembler.values());
-    record.factorize_s = seconds_since(t0);
-    if (factor.status != FactorStatus::ok) {
-      report.history.push_back(record);
-      const std::string why =
-          factor.status == FactorStatus::not_positive_definite
-              ? fmt::format("the Jacobian is not positive definite (pivot {} of {})",
-                            factor.bad_column, n)
-          : factor.status == FactorStatus::ill_conditioned
-              ? fmt::format(
-                    "the matrix is singular (condition estimate {:.1e}): the field has "
-                    "no fixed reference — is A = 0 applied anywhere?",
-                    factor.rcond)
-              : std::string("CHOLMOD failed to factorise the Jacobian");
-      throw NumericalError(why + history_text(report), report);
-    }
-    t0 = std::chrono::steady_clock::now();
+    // A factor kept from an earlier iterate preconditions conjugate gradients on this one's
+    // Jacobian (inexact Newton: the linear residual down to η·‖r‖); a new factor is made when
+    // CG does not get there within its budget, or when the last step moved the field so far
+    // (or CG needed so many iterations) that it would not. Near the solution J hardly changes,
+    // and a few back-substitutions replace a factorisation.
     const Eigen::VectorXd rhs = -residual;
-    cholesky.solve(rhs.data(), delta.data());
-    if (low_rank && low_rank->b.cols() > 0) {
-      const long m = low_rank->b.cols();
-      Eigen::MatrixXd y(n, m);
-      for (long k = 0; k < m; ++k) cholesky.solve(low_rank->b.col(k).data(), y.col(k).data());
-      // LDLT, not inverse(): libgmsh exports its own PartialPivLU<MatrixXd>, and an
-      // instantiation here would be interposed with it (a mismatched allocator under ASan).
-      const Eigen::MatrixXd m_inverse = low_rank->m.ldlt().solve(Eigen::MatrixXd::Identity(m, m));
-      const Eigen::MatrixXd capacitance = m_inverse + low_rank->b.transpose() * y;  // SPD
-      delta -= y * capacitance.ldlt().solve(low_rank->b.transpose() * delta);
+    bool solved = false;
+    t0 = std::chrono::steady_clock::now();
+    const bool worth_trying =
+        last_update < 3e-3 && last_cg >= 0 && 2 * last_cg <= settings.cg_budget;
+    if (step_solver.has_factor() && settings.cg_budget > 0 && worth_trying) {
+      // η ∝ ‖r‖ keeps the rate quadratic; never stricter than the tolerance needs.
+      const double rho = record.relative_residual;
+      const double eta =
+          std::min(0.05, std::max(10.0 * rho, 0.1 * settings.residual_tolerance / rho));
+      const int used = step_solver.conjugate_gradients(rhs, eta, settings.cg_budget, delta);
+      record.cg_iterations = std::abs(used);
+      report.cg_iterations += std::abs(used);
+      solved = used > 0;
+      last_cg = used;
     }
     record.solve_s = seconds_since(t0);
+    if (!solved) {
+      t0 = std::chrono::steady_clock::now();
+      const FactorResult factor = step_solver.refactor();
+      record.factorize_s = seconds_since(t0);
+      record.factorized = true;
+      ++report.factorizations;
+      last_cg = 0;
+      if (factor.status != FactorStatus::ok) {
+        report.history.push_back(record);
+        const std::string why =
+            factor.status == FactorStatus::not_positive_definite
+                ? fmt::format("the Jacobian is not positive definite (pivot {} of {})",
+                              factor.bad_column, n)
+            : factor.status == FactorStatus::ill_conditioned
+                ? fmt::format(
+                      "the matrix is singular (condition estimate {:.1e}): the field has "
+                      "no fixed reference — is A = 0 applied anywhere?",
+                      factor.rcond)
+                : std::string("CHOLMOD failed to factorise the Jacobian");
+        throw NumericalError(why + history_text(report), report);
+      }
+      t0 = std::chrono::steady_clock::now();
+      step_solver.apply_factor(rhs, delta);
+      record.solve_s += seconds_since(t0);
+    }
     ++report.iterations;
 
     // Line search on the energy functional, which is convex along δ: its slope there is

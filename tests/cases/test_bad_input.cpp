@@ -196,6 +196,8 @@ const BadCase catalogue[] = {
     {"unknown time scheme", "pump_4p36s_running.toml", "[study]",
      "[study]\ntime_scheme = \"crank_nicolson\"", "study.time_scheme",
      "must be one of: backward_euler, bdf2", "time_scheme ="},
+    {"negative CG budget", "pump_4p36s.toml", "", "\n[solver]\ncg_budget = -1\n",
+     "solver.cg_budget", "must be an integer in [0, 1000]", "cg_budget ="},
 };
 
 int line_of(const std::string& text, const std::string& fragment) {

@@ -13,6 +13,7 @@ import subprocess
 import sys
 
 import h5py
+import json
 import numpy as np
 
 gapflux, examples, tmp = sys.argv[1:4]
@@ -61,6 +62,15 @@ with h5py.File(os.path.join(whole, "results.h5"), "r") as a, h5py.File(os.path.j
     pa, pb = a["steps/flux_linkage"][...], b["steps/flux_linkage"][...]
     check(pa.shape == pb.shape and np.abs(pa - pb).max() <= 1e-6 * np.abs(pa).max(), "flux linkages differ")
     check(np.allclose(a["steps/time"][...], b["steps/time"][...], rtol=0, atol=1e-15), "times differ")
+    # The solver's totals in summary.json count the whole run, not only the resumed part.
+    sa = json.load(open(os.path.join(whole, "summary.json")))["solver"]
+    sb = json.load(open(os.path.join(killed, "summary.json")))["solver"]
+    for key, rows in [("newton_iterations", "steps/newton_iterations"),
+                      ("newton_factorizations", "steps/newton_factorizations")]:
+        total = int(round(float(b[rows][...].sum())))
+        check(sb[key] == total, f"resumed summary {key} {sb[key]} vs its steps' sum {total}")
+        check(sb[key] == sa[key], f"resumed summary {key} {sb[key]} vs uninterrupted {sa[key]}")
+    check(0 < sb["newton_factorizations"] <= sb["newton_iterations"], "factorisations out of range")
 pvd = open(os.path.join(killed, "fields.pvd")).read()
 check(pvd.count("<DataSet") == 3, f"fields.pvd lists {pvd.count('<DataSet')} files, expected 3")
 

@@ -58,7 +58,7 @@ for key in ["vertices", "triangles", "order", "dofs", "min_angle_deg"]:
     check(key in summary["mesh"], f"summary.mesh.{key} missing")
 for key in ["slots", "poles", "layers", "coil_pitch_slots", "factors"]:
     check(key in summary["winding"], f"summary.winding.{key} missing")
-for key in ["steps", "newton_iterations", "wall_s"]:
+for key in ["steps", "newton_iterations", "newton_factorizations", "cg_iterations", "wall_s"]:
     check(key in summary["solver"], f"summary.solver.{key} missing")
 check(summary["winding"]["factors"][0]["order"] == 1, "first winding factor is not the fundamental")
 

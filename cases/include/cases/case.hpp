@@ -209,6 +209,7 @@ struct SolverSpec {
   int max_iterations = 30;
   double residual_tolerance = 1e-8;  // ‖r‖/‖f‖
   double update_tolerance = 1e-8;    // ‖δ‖/‖A‖
+  int cg_budget = 20;  // CG iterations on an earlier factor before refactorising; 0: never
 };
 
 struct OutputSpec {

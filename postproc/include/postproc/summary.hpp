@@ -67,6 +67,8 @@ struct RunSummary {
   bool frequency_detected = false;
   // solver
   int steps = 0, newton_iterations = 0;
+  int newton_factorizations = 0;  // of the iterations, those with a new factor
+  int cg_iterations = 0;          // on earlier factors
   bool converged = false;
   double wall_s = 0.0;
   std::vector<double> residual_history;

@@ -1,8 +1,9 @@
 #pragma once
-// Newton–Raphson for the nonlinear magnetostatic system with the exact Jacobian, a
-// backtracking line search on the residual norm, and warm starts. Convergence: relative residual
-// ‖r‖/‖f‖ (f = load vector) below residual_tolerance, or relative update ‖δ‖/‖x‖ below
-// update_tolerance with the residual below 100× its tolerance.
+// Newton–Raphson for the nonlinear magnetostatic system with the exact Jacobian, a line search
+// on the energy, and warm starts; the Newton step is solved with a new CHOLMOD factor or, when
+// the Jacobian has changed little, by conjugate gradients on an earlier iterate's factor.
+// Convergence: relative residual ‖r‖/‖f‖ (f = load vector) below residual_tolerance, or relative
+// update ‖δ‖/‖x‖ below update_tolerance with the residual below 100× its tolerance.
 #include <Eigen/Core>
 #include <stdexcept>
 #include <string>
@@ -18,6 +19,9 @@ struct NewtonSettings {
   double residual_tolerance = 1e-8;
   double update_tolerance = 1e-8;
   int max_halvings = 10;
+  // Conjugate-gradient iterations allowed on an earlier iterate's factor before a new
+  // factorisation is made; 0: a new factor in every iteration (plain Newton).
+  int cg_budget = 20;
 };
 
 // A term B·(M·Bᵀx − w) added to the residual and B·M·Bᵀ to the Jacobian, with M symmetric
@@ -38,11 +42,15 @@ struct NewtonIteration {
   double relative_update = 0.0;    // of the step taken
   double step = 1.0;               // line-search factor
   double assembly_s = 0.0, factorize_s = 0.0, solve_s = 0.0;
+  bool factorized = false;  // a new factor of this iterate's Jacobian was made
+  int cg_iterations = 0;    // on an earlier factor (also when they fell short and it refactorised)
 };
 
 struct NewtonReport {
   bool converged = false;
-  int iterations = 0;  // linear solves made
+  int iterations = 0;      // Newton iterations (linearisations solved)
+  int factorizations = 0;  // of them with a new factor; the others by CG on an earlier one
+  int cg_iterations = 0;
   double relative_residual = 0.0;
   std::vector<NewtonIteration> history;
   bool analysed = false;  // a new symbolic analysis was made
