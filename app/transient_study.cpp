@@ -64,12 +64,13 @@ void TransientStudy::run() {
     const double left = elapsed / (n + 1 - first) * (grid_.steps - n - 1);
     if (terminal) {
       const int width = 30, filled = width * (n + 1) / grid_.steps;
-      fmt::print(stderr, "\r  [{}{}] step {}/{}, newton {}, {} left   ", std::string(filled, '#'),
-                 std::string(width - filled, '.'), n + 1, grid_.steps, newton_last_,
-                 duration_text(left));
+      fmt::print(stderr, "\r  [{}{}] step {}/{}, newton {} ({} factorised), {} left   ",
+                 std::string(filled, '#'), std::string(width - filled, '.'), n + 1, grid_.steps,
+                 newton_last_, factorizations_last_, duration_text(left));
     } else {
-      fmt::print(stderr, "step {}/{} t = {:.6f} s, newton {}, elapsed {}\n", n + 1, grid_.steps,
-                 grid_.time(n), newton_last_, duration_text(elapsed));
+      fmt::print(stderr, "step {}/{} t = {:.6f} s, newton {} ({} factorised), elapsed {}\n", n + 1,
+                 grid_.steps, grid_.time(n), newton_last_, factorizations_last_,
+                 duration_text(elapsed));
     }
   }
   if (terminal) fmt::print(stderr, "\n");
@@ -224,6 +225,7 @@ void TransientStudy::step(int n) {
     currents = supply_phase_currents_a(case_.supply, t);
   }
   newton_last_ = report.iterations;
+  factorizations_last_ = report.factorizations;
   newton_total_ += report.iterations;
   factorizations_total_ += report.factorizations;
   cg_total_ += report.cg_iterations;

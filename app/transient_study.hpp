@@ -75,6 +75,7 @@ class TransientStudy {
   int factorizations_total_ = 0;
   int cg_total_ = 0;
   int newton_last_ = 0;
+  int factorizations_last_ = 0;
   int steps_done_ = 0;
   double wall_start_s_ = 0.0;
   std::vector<std::pair<double, std::string>> field_files_;
