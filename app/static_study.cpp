@@ -15,6 +15,7 @@
 #include "postproc/results_file.hpp"
 #include "postproc/summary.hpp"
 #include "postproc/vtu_writer.hpp"
+#include "solver/newton_settings.hpp"
 #include "solver/region_model.hpp"
 #include "solver/supply_currents.hpp"
 
@@ -69,12 +70,7 @@ void StaticStudy::set_up() {
 }
 
 void StaticStudy::solve() {
-  NewtonSettings settings;
-  settings.max_iterations = case_.solver.max_iterations;
-  settings.residual_tolerance = case_.solver.residual_tolerance;
-  settings.update_tolerance = case_.solver.update_tolerance;
-  settings.cg_budget = case_.solver.cg_budget;
-  report_ = system_->solve(model_, settings);
+  report_ = system_->solve(model_, newton_settings(case_.solver));
 }
 
 void StaticStudy::write_output(const std::string& failure) {

@@ -21,6 +21,7 @@
 #include "postproc/torque.hpp"
 #include "postproc/vtu_writer.hpp"
 #include "solver/magnetostatic_system.hpp"
+#include "solver/newton_settings.hpp"
 #include "solver/region_model.hpp"
 #include "solver/rotor_currents.hpp"
 #include "solver/supply_currents.hpp"
@@ -204,11 +205,7 @@ void TransientStudy::step(int n) {
       bar_current_density(mesh_, case_, lamination_.winding, lamination_.bars, t, angle);
   for (std::size_t r = 0; r < j.size(); ++r) j[r] += bars[r];
   const RegionModel model = make_region_model(mesh_, materials_, j);
-  NewtonSettings settings;
-  settings.max_iterations = case_.solver.max_iterations;
-  settings.residual_tolerance = case_.solver.residual_tolerance;
-  settings.update_tolerance = case_.solver.update_tolerance;
-  settings.cg_budget = case_.solver.cg_budget;
+  const NewtonSettings settings = newton_settings(case_.solver);
   std::array<double, 3> currents{0, 0, 0};
   WindingCircuit::StepResult circuit_step;
   NewtonReport report;
