@@ -63,7 +63,7 @@ NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const 
 
   double last_update = 1.0;
   NewtonStepSolver step_solver(assembler, cholesky, low_rank);
-  int last_cg = 0;  // CG iterations of the last step on the factor held (< 0: it failed)
+  int last_cg = 0;  // CG iterations the last step took on the factor held (0 after a new one)
   for (int it = static_cast<int>(report.history.size());; ++it) {
     NewtonIteration record;
     record.iteration = it;
@@ -105,8 +105,7 @@ NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const 
     const Eigen::VectorXd rhs = -residual;
     bool solved = false;
     t0 = std::chrono::steady_clock::now();
-    const bool worth_trying =
-        last_update < 3e-3 && last_cg >= 0 && 2 * last_cg <= settings.cg_budget;
+    const bool worth_trying = last_update < 3e-3 && 2 * last_cg <= settings.cg_budget;
     if (step_solver.has_factor() && settings.cg_budget > 0 && worth_trying) {
       // η ∝ ‖r‖ keeps the rate quadratic; never stricter than the tolerance needs.
       const double rho = record.relative_residual;
