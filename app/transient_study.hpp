@@ -68,6 +68,9 @@ class TransientStudy {
   RunSummary summary_;
   std::unique_ptr<ResultsFile> h5_;
   Eigen::VectorXd x_last_;  // the last step's solution (warm start)
+  // The last step's system, kept while the rotor stays at its angle (locked rotor).
+  std::unique_ptr<MagnetostaticSystem> system_;
+  double system_angle_rad_ = 0.0;
   std::array<double, 3> psi_last_{0, 0, 0};
   bool have_last_ = false;
   int shift_last_ = 0;  // band shift of the last step

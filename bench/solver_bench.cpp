@@ -3,12 +3,15 @@
 // start; peak memory; and how time grows with the DOF count over a refined series.
 //
 //   build/bench/gapflux_bench [--quick] [--threads N] [--stepping STEPS] [--history]
-//                             [--steps-per-period K] [--cg-budget N]
+//                             [--steps-per-period K] [--cg-budget N] [--locked]
+//                             [--new-system-each-step]
 //
 // --stepping STEPS runs only the time-stepping figures over that many steps; --history prints
 // each step's Newton iterations (residual, line-search step, update, new factor or CG);
 // --steps-per-period overrides the running case's step; --cg-budget sets the CG iterations
-// allowed on an earlier factor (0: plain Newton, a new factor every iteration).
+// allowed on an earlier factor (0: plain Newton, a new factor every iteration); --locked holds
+// the rotor still, where the last step's system and factor serve again (as in `gapflux run`),
+// unless --new-system-each-step builds a new one every step (as before 2026-12-02).
 // The static table times plain Newton per iteration against bare CHOLMOD; cold_f and warm_f are
 // the factorisations the same solves need with the default factor reuse.
 //
@@ -21,6 +24,7 @@
 #include <chrono>
 #include <cmath>
 #include <cstring>
+#include <memory>
 #include <numbers>
 #include <string>
 #include <vector>
@@ -142,10 +146,21 @@ Row run_case(const std::string& name, const std::string& path, double refine) {
 
 // Time stepping: per step, the band re-triangulation and system set-up ("remesh"), Newton's
 // assembly / factorisation / solve, and the post-processing (torque, flux linkage, airgap).
-void run_stepping(const std::string& path, int steps, bool history, int steps_per_period,
-                  int cg_budget) {
+struct SteppingOptions {
+  int steps = 0;
+  bool history = false;
+  int steps_per_period = 0;  // 0: the case's
+  int cg_budget = -1;        // −1: the default
+  bool locked = false;
+  bool new_system_each_step = false;
+};
+
+void run_stepping(const std::string& path, const SteppingOptions& o) {
+  const int steps = o.steps, cg_budget = o.cg_budget;
+  const bool history = o.history;
   Case c = read_case_file(path);
-  if (steps_per_period > 0) c.study.steps_per_period = steps_per_period;
+  if (o.steps_per_period > 0) c.study.steps_per_period = o.steps_per_period;
+  if (o.locked) c.study.motion = Motion::locked;
   NewtonSettings newton;
   if (cg_budget >= 0) newton.cg_budget = cg_budget;
   const Lamination lam = build_lamination(c);
@@ -159,12 +174,19 @@ void run_stepping(const std::string& path, int steps, bool history, int steps_pe
   double band_residual = 0, other_residual = 0;
   Eigen::VectorXd last;
   int last_shift = 0;
+  std::unique_ptr<MagnetostaticSystem> kept;
+  double kept_angle = 0.0;
   for (int n = 0; n < steps; ++n) {
     const auto t_step = std::chrono::steady_clock::now();
     const double t = grid.time(n), angle = grid.rotor_angle(n);
     auto t0 = std::chrono::steady_clock::now();
-    MagnetostaticSystem system(mesh, angle);
-    if (last.size()) system.warm_start(last, last_shift);
+    // The same angle gives the same band: the study keeps the system (and its factor) then.
+    if (!kept || angle != kept_angle || o.new_system_each_step) {
+      kept = std::make_unique<MagnetostaticSystem>(mesh, angle);
+      kept_angle = angle;
+      if (last.size()) kept->warm_start(last, last_shift);
+    }
+    MagnetostaticSystem& system = *kept;
     remesh += seconds(t0);
     std::array<double, 3> i{};
     for (int k = 0; k < 3; ++k)
@@ -220,8 +242,11 @@ void run_stepping(const std::string& path, int steps, bool history, int steps_pe
     last_shift = system.band().shift;
     wall += seconds(t_step);
   }
-  fmt::print("time stepping {} ({} steps of {} per period, {} DOFs):\n",
-             path.substr(path.rfind('/') + 1), steps, grid.steps_per_period, last.size());
+  fmt::print("time stepping {} ({} steps of {} per period, {} DOFs{}):\n",
+             path.substr(path.rfind('/') + 1), steps, grid.steps_per_period, last.size(),
+             o.locked ? (o.new_system_each_step ? ", rotor locked, a new system each step"
+                                                : ", rotor locked, the system kept")
+                      : "");
   fmt::print(
       "  per step: wall {:.3f} s = band + set-up + analysis {:.3f} + assembly {:.3f} + "
       "factorisation {:.3f} "
@@ -243,23 +268,26 @@ void run_stepping(const std::string& path, int steps, bool history, int steps_pe
 
 int main(int argc, char** argv) {
   bool quick = false;
-  int stepping_only = 0, steps_per_period = 0, cg_budget = -1;
-  bool history = false;
+  int stepping_only = 0;
+  SteppingOptions stepping;
   for (int i = 1; i < argc; ++i) {
     if (std::strcmp(argv[i], "--quick") == 0) quick = true;
-    if (std::strcmp(argv[i], "--history") == 0) history = true;
+    if (std::strcmp(argv[i], "--history") == 0) stepping.history = true;
+    if (std::strcmp(argv[i], "--locked") == 0) stepping.locked = true;
+    if (std::strcmp(argv[i], "--new-system-each-step") == 0) stepping.new_system_each_step = true;
     if (std::strcmp(argv[i], "--stepping") == 0 && i + 1 < argc)
       stepping_only = std::atoi(argv[++i]);
     if (std::strcmp(argv[i], "--steps-per-period") == 0 && i + 1 < argc)
-      steps_per_period = std::atoi(argv[++i]);
-    if (std::strcmp(argv[i], "--cg-budget") == 0 && i + 1 < argc) cg_budget = std::atoi(argv[++i]);
+      stepping.steps_per_period = std::atoi(argv[++i]);
+    if (std::strcmp(argv[i], "--cg-budget") == 0 && i + 1 < argc)
+      stepping.cg_budget = std::atoi(argv[++i]);
     if (std::strcmp(argv[i], "--threads") == 0 && i + 1 < argc)
       omp_set_num_threads(std::atoi(argv[++i]));
   }
   const std::string dir = GAPFLUX_EXAMPLES_DIR;
   if (stepping_only > 0) {
-    run_stepping(dir + "/pump_4p36s_running.toml", stepping_only, history, steps_per_period,
-                 cg_budget);
+    stepping.steps = stepping_only;
+    run_stepping(dir + "/pump_4p36s_running.toml", stepping);
     return 0;
   }
   std::vector<std::pair<std::string, double>> series = {
@@ -305,8 +333,8 @@ int main(int argc, char** argv) {
   fmt::print("time per Newton iteration ∝ DOFs^{:.3f} over {:.0f}…{:.0f} DOFs\n",
              (n * sxy - sx * sy) / (n * sxx - sx * sx), double(scaled.front().dofs),
              double(scaled.back().dofs));
-  run_stepping(dir + "/pump_4p36s_running.toml", quick ? 6 : 20, history, steps_per_period,
-               cg_budget);
+  stepping.steps = quick ? 6 : 20;
+  run_stepping(dir + "/pump_4p36s_running.toml", stepping);
   fmt::print("peak memory {:.0f} MB\n", peak_memory_mb());
   return 0;
 }

@@ -64,6 +64,10 @@ NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const 
   double last_update = 1.0;
   NewtonStepSolver step_solver(assembler, cholesky, low_rank);
   int last_cg = 0;  // CG iterations the last step took on the factor held (0 after a new one)
+  // An earlier solve on the same pattern (the same rotor position: a locked rotor, or the next
+  // load of a static study) left its factor: the first step tries CG on it before factorising.
+  bool first_on_held =
+      !report.analysed && settings.cg_budget > 0 && step_solver.adopt_held_factor();
   for (int it = static_cast<int>(report.history.size());; ++it) {
     NewtonIteration record;
     record.iteration = it;
@@ -105,7 +109,9 @@ NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const 
     const Eigen::VectorXd rhs = -residual;
     bool solved = false;
     t0 = std::chrono::steady_clock::now();
-    const bool worth_trying = last_update < 3e-3 && 2 * last_cg <= settings.cg_budget;
+    const bool worth_trying =
+        (first_on_held || last_update < 3e-3) && 2 * last_cg <= settings.cg_budget;
+    first_on_held = false;
     if (step_solver.has_factor() && settings.cg_budget > 0 && worth_trying) {
       // η ∝ ‖r‖ keeps the rate quadratic; never stricter than the tolerance needs.
       const double rho = record.relative_residual;

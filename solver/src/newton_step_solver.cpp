@@ -11,7 +11,18 @@ NewtonStepSolver::NewtonStepSolver(const Assembler& assembler, SparseCholesky& c
 FactorResult NewtonStepSolver::refactor() {
   const FactorResult result = cholesky_.factorize(assembler_.values());
   has_factor_ = result.status == FactorStatus::ok;
-  if (!has_factor_ || !low_rank_) return result;
+  if (has_factor_) prepare_low_rank();
+  return result;
+}
+
+bool NewtonStepSolver::adopt_held_factor() {
+  has_factor_ = cholesky_.has_factor();
+  if (has_factor_) prepare_low_rank();
+  return has_factor_;
+}
+
+void NewtonStepSolver::prepare_low_rank() {
+  if (!low_rank_) return;
   const Eigen::MatrixXd& b = low_rank_->b;
   const long m = b.cols();
   y_.resize(b.rows(), m);
@@ -20,7 +31,6 @@ FactorResult NewtonStepSolver::refactor() {
   // here would be interposed with it (a mismatched allocator under ASan).
   const Eigen::MatrixXd m_inverse = low_rank_->m.ldlt().solve(Eigen::MatrixXd::Identity(m, m));
   capacitance_.compute(m_inverse + b.transpose() * y_);  // SPD
-  return result;
 }
 
 void NewtonStepSolver::apply_factor(const Eigen::VectorXd& b, Eigen::VectorXd& delta) {

@@ -19,6 +19,9 @@ class NewtonStepSolver {
   bool has_factor() const { return has_factor_; }
   // Factorises the assembler's current Jacobian; on success, later solves use it.
   FactorResult refactor();
+  // Takes the factor the Cholesky object already holds (an earlier solve's, on the same
+  // pattern) as this solve's preconditioner. Returns false when it holds none.
+  bool adopt_held_factor();
   // δ = (F + BMBᵀ)⁻¹·b with the factor F held: exact right after refactor().
   void apply_factor(const Eigen::VectorXd& b, Eigen::VectorXd& delta);
   // Conjugate gradients on the assembler's current (J + BMBᵀ)·δ = b from δ = 0, preconditioned
@@ -28,6 +31,7 @@ class NewtonStepSolver {
 
  private:
   void multiply(const Eigen::VectorXd& v, Eigen::VectorXd& out) const;
+  void prepare_low_rank();  // Woodbury's F⁻¹B and capacitance for the factor held
 
   const Assembler& assembler_;
   SparseCholesky& cholesky_;

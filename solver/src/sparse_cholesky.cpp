@@ -33,6 +33,7 @@ bool SparseCholesky::analyze(int n, const std::vector<int>& column_starts,
                              const std::vector<int>& row_indices) {
   State& s = *state_;
   if (s.matrix && s.col == column_starts && s.row == row_indices) return false;
+  has_factor_ = false;
   if (s.factor) cholmod_free_factor(&s.factor, &s.common);
   if (s.matrix) cholmod_free_sparse(&s.matrix, &s.common);
   s.col = column_starts;
@@ -53,6 +54,7 @@ FactorResult SparseCholesky::factorize(const std::vector<double>& values) {
   State& s = *state_;
   std::memcpy(s.matrix->x, values.data(), sizeof(double) * values.size());
   FactorResult r;
+  has_factor_ = false;
   cholmod_factorize(s.matrix, s.factor, &s.common);
   if (s.common.status == CHOLMOD_NOT_POSDEF) {
     r.status = FactorStatus::not_positive_definite;
@@ -67,6 +69,7 @@ FactorResult SparseCholesky::factorize(const std::vector<double>& values) {
   // A matrix that is singular in exact arithmetic (a floating potential) factors with a pivot
   // at rounding level: its condition estimate falls to the order of machine epsilon.
   if (!(r.rcond > 1e-14)) r.status = FactorStatus::ill_conditioned;
+  has_factor_ = r.status == FactorStatus::ok;
   return r;
 }
 

@@ -69,7 +69,8 @@ class NumericalError : public std::runtime_error {
 };
 
 // Solves starting from x (warm start); leaves the last iterate in x. Throws NumericalError on a
-// non-positive pivot, a singular matrix or no convergence.
+// non-positive pivot, a singular matrix or no convergence. A factor `cholesky` still holds from
+// an earlier solve on the same pattern preconditions the first step (CG) before a new one is made.
 // With `low_rank`, its term joins the residual and the Jacobian, and the coil load B·i it stands
 // for joins the reference of the relative residual.
 NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const RegionModel& model,

@@ -26,6 +26,8 @@ class SparseCholesky {
   // Returns true when a new analysis was made.
   bool analyze(int n, const std::vector<int>& column_starts, const std::vector<int>& row_indices);
   FactorResult factorize(const std::vector<double>& values);
+  // A factor from a successful factorize() on the current pattern is held.
+  bool has_factor() const { return has_factor_; }
   // x = A⁻¹ b with the last factor.
   void solve(const double* b, double* x) const;
   int analyses() const { return analyses_; }
@@ -35,6 +37,7 @@ class SparseCholesky {
   struct State;
   std::unique_ptr<State> state_;
   int analyses_ = 0;
+  bool has_factor_ = false;
 };
 
 }  // namespace gapflux
