@@ -64,8 +64,8 @@ NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const 
   double last_update = 1.0;
   NewtonStepSolver step_solver(assembler, cholesky, low_rank);
   int last_cg = 0;  // CG iterations the last step took on the factor held (0 after a new one)
-  // An earlier solve on the same pattern (the same rotor position: a locked rotor, or the next
-  // load of a static study) left its factor: the first step tries CG on it before factorising.
+  // An earlier solve on the same pattern (the same rotor position: a locked rotor's last step,
+  // a voltage feed's start-up solves) left its factor: the first step tries CG on it first.
   bool first_on_held =
       !report.analysed && settings.cg_budget > 0 && step_solver.adopt_held_factor();
   for (int it = static_cast<int>(report.history.size());; ++it) {
