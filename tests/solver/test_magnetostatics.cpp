@@ -192,8 +192,9 @@ TEST_CASE("a second solve on the same system starts by CG on the factor the firs
           "[solver][newton]") {
   // The next instant of a locked rotor: the same pattern, the load moved by 2 %. Solved on the
   // system that holds the last factor, and on a fresh system from the same warm start: the same
-  // answer (to 1e-9, both stop at 1e-11) and Ampère's (0.1 %), with fewer factorisations on
-  // the kept system: its first step must go by CG on the held factor.
+  // answer (to 1e-9, both stop at 1e-11) and Ampère's law's (coax_exact, design.md §6; 0.1 % as
+  // in the coax test), with fewer factorisations on the kept system: its first step must go by
+  // CG on the held factor.
   const Mesh mesh = coax_mesh(2, 1.0e-3);
   const NewtonSettings settings = coax_settings(NewtonSettings{}.cg_budget);
   MagnetostaticSystem kept(mesh, 0.0);
