@@ -13,10 +13,12 @@
 #include "geometry/lamination.hpp"
 #include "geometry/mesher.hpp"
 #include "geometry/moving_band.hpp"
+#include "interrupts.hpp"
 #include "materials/library.hpp"
 #include "postproc/baseline.hpp"
 #include "postproc/summary.hpp"
 #include "postproc/vtu_writer.hpp"
+#include "run_folder.hpp"
 #include "solver/supply_currents.hpp"
 #include "solver/time_grid.hpp"
 #include "static_study.hpp"
@@ -69,13 +71,15 @@ int command_check(const std::string& case_path, const CommonOptions&) {
   return 0;
 }
 
-int command_mesh(const std::string& case_path, const std::string& out_dir, const CommonOptions&) {
+int command_mesh(const std::string& case_path, const std::string& out_dir,
+                 const CommonOptions& options) {
   const Prepared p = prepare(case_path);
+  const RunFolder folder(out_dir, {"mesh.vtu"},
+                         options.replace ? FolderUse::replace : FolderUse::fresh);
   const Mesh mesh = mesh_lamination(p.lamination, p.mesh_settings);
   const MeshQuality quality = mesh_quality(mesh);
-  std::filesystem::create_directories(out_dir);
   const BandMesh band = build_moving_band(mesh, 0.0);
-  const std::string path = (std::filesystem::path(out_dir) / "mesh.vtu").string();
+  const std::string path = folder.path("mesh.vtu");
   write_mesh_vtu(path, mesh, &band);
   fmt::print("case: {} ({})\n", p.c.machine.name, case_path);
   print_mesh_statistics(std::cout, mesh, quality);
@@ -112,7 +116,8 @@ void run_baseline(const std::string& case_path, const std::string& out_dir,
   const std::string dir = (std::filesystem::path(out_dir) / "baseline").string();
   fmt::print("\n== baseline: balanced {:.4g} {} at {:.2f}°, no harmonics, into {}\n", balanced.rms,
              voltage ? "V (phase)" : "A", angle * 180.0 / std::numbers::pi, dir);
-  TransientStudy base(case_path, dir, false);
+  // The baseline's folder belongs to this run (locked with it): it is always rewritten.
+  TransientStudy base(case_path, dir, FolderUse::replace);
   base.override_supply(balanced);
   base.run();
   BaselineComparison c = compare_with_baseline(run, base.summary());
@@ -137,14 +142,20 @@ int command_run(const std::string& case_path, const std::string& out_dir,
   if (options.baseline && !stepping)
     throw InputError(case_path, {}, "study.kind",
                      "--baseline compares time-stepping studies; this case is static");
+  const FolderUse use = options.resume    ? FolderUse::resume
+                        : options.replace ? FolderUse::replace
+                                          : FolderUse::fresh;
   try {
     if (stepping) {
-      TransientStudy study(case_path, out_dir, options.resume);
+      const InterruptWatch interrupts;
+      TransientStudy study(case_path, out_dir, use);
       study.run();
       if (options.baseline) run_baseline(case_path, out_dir, study);
     } else {
-      StaticStudy(case_path, out_dir).run();
+      StaticStudy(case_path, out_dir, use).run();
     }
+  } catch (const Interrupted& i) {
+    return 128 + i.signal_number;
   } catch (const NumericalError& e) {
     fmt::print(stderr, "gapflux: numerical failure: {}\n(what was computed is saved in {})\n",
                e.what(), out_dir);

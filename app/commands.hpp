@@ -8,6 +8,7 @@ namespace gapflux {
 struct CommonOptions {
   int threads = 0;        // 0: as many as the machine has
   bool resume = false;    // run: continue a killed time-stepping run
+  bool replace = false;   // run, mesh: overwrite the outputs of an earlier run in the folder
   bool baseline = false;  // run: also run the balanced, harmonic-free baseline and compare
 };
 

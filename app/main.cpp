@@ -7,6 +7,7 @@
 
 #include "cases/input_error.hpp"
 #include "commands.hpp"
+#include "postproc/output_file.hpp"
 #include "version.hpp"
 
 int main(int argc, char** argv) {
@@ -28,11 +29,17 @@ int main(int argc, char** argv) {
   auto* mesh = app.add_subcommand("mesh", "validate and mesh a case; write DIR/mesh.vtu");
   mesh->add_option("CASE", case_path, "case file (TOML)")->required();
   mesh->add_option("--out", out_dir, "output directory")->required();
+  mesh->add_flag("--replace", options.replace, "overwrite DIR/mesh.vtu if it exists");
   auto* run = app.add_subcommand("run", "solve a case; write results into DIR");
   run->add_option("CASE", case_path, "case file (TOML)")->required();
   run->add_option("--out", out_dir, "output directory")->required();
-  run->add_flag("--resume", options.resume,
-                "continue a killed time-stepping run from its last finished step in DIR");
+  auto* resume = run->add_flag(
+      "--resume", options.resume,
+      "continue a stopped time-stepping run from its last finished step in DIR (the case must "
+      "be unchanged)");
+  run->add_flag("--replace", options.replace,
+                "overwrite the outputs of an earlier run in DIR (they are removed first)")
+      ->excludes(resume);
   run->add_flag("--baseline", options.baseline,
                 "also run the same case on a balanced, harmonic-free supply of its "
                 "positive-sequence fundamental (into DIR/baseline) and report the differences");
@@ -50,6 +57,9 @@ int main(int argc, char** argv) {
   } catch (const InputError& e) {
     std::cerr << e.what() << "\n";
     return 2;
+  } catch (const OutputError& e) {
+    std::cerr << "gapflux: error: " << e.what() << "\n";
+    return 1;
   } catch (const std::exception& e) {
     std::cerr << "gapflux: error: " << e.what() << "\n";
     return 1;

@@ -11,6 +11,7 @@
 
 #include "cases/case_reader.hpp"
 #include "postproc/field_evaluation.hpp"
+#include "postproc/output_file.hpp"
 #include "postproc/result_sets.hpp"
 #include "postproc/results_file.hpp"
 #include "postproc/summary.hpp"
@@ -28,12 +29,21 @@ double now_s() {
 
 }  // namespace
 
-StaticStudy::StaticStudy(std::string case_path, std::string out_dir)
-    : case_path_(std::move(case_path)), out_dir_(std::move(out_dir)) {}
+StaticStudy::StaticStudy(std::string case_path, std::string out_dir, FolderUse use)
+    : case_path_(std::move(case_path)), out_dir_(std::move(out_dir)), folder_use_(use) {}
 
 void StaticStudy::run() {
   wall_start_s_ = now_s();
   set_up();
+  try {
+    solve_and_write();
+  } catch (const OutputError&) {
+    folder_->discard_partial_files();  // only whole files stay under their names
+    throw;
+  }
+}
+
+void StaticStudy::solve_and_write() {
   try {
     solve();
   } catch (const NumericalError& e) {
@@ -58,10 +68,11 @@ void StaticStudy::set_up() {
   materials_ = resolve_region_materials(case_);
   lamination_ = build_lamination(case_);
   mesh_settings_ = resolve_mesh_settings(case_, lamination_);
+  check_supply_at_instant(case_, case_.study.time_s);
+  // The case is valid: only now may the folder be locked (and, with --replace, cleared).
+  folder_ = std::make_unique<RunFolder>(out_dir_, RunFolder::run_outputs(), folder_use_);
   mesh_ = mesh_lamination(lamination_, mesh_settings_);
   system_ = std::make_unique<MagnetostaticSystem>(mesh_, case_.study.rotor_angle_rad);
-
-  check_supply_at_instant(case_, case_.study.time_s);
   phase_current_a_ = supply_phase_currents_a(case_.supply, case_.study.time_s);
 
   coils_ = coil_regions(mesh_, lamination_.winding);
@@ -89,9 +100,10 @@ void StaticStudy::write_output(const std::string& failure) {
   const std::vector<double> a_nodes = nodal_potential(mesh_, system_->dofs(), x);
   const MeshQuality quality = mesh_quality(mesh_);
 
-  // results.h5
+  // results.h5, written under a partial name and renamed when whole
+  const std::string h5_path = folder_->path("results.h5");
   {
-    ResultsFile h5((fs::path(out_dir_) / "results.h5").string());
+    ResultsFile h5(h5_path + ".partial");
     h5.attribute("/", "schema", std::string("gapflux-results/1"));
     h5.attribute("/", "case_name", case_.machine.name);
     h5.attribute("/", "converged", static_cast<long>(failure.empty()));
@@ -130,6 +142,11 @@ void StaticStudy::write_output(const std::string& failure) {
     for (const NewtonIteration& it : report_.history) history.push_back(it.relative_residual);
     h5.write("solver/relative_residual", history, "1");
     h5.flush();
+  }
+  {
+    std::error_code ec;
+    fs::rename(h5_path + ".partial", h5_path, ec);
+    if (ec) throw OutputError(h5_path, ec.message());
   }
 
   // fields.pvd + fields/step_00000.vtu

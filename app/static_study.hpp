@@ -13,6 +13,7 @@
 #include "geometry/mesher.hpp"
 #include "geometry/moving_band.hpp"
 #include "materials/library.hpp"
+#include "run_folder.hpp"
 #include "solver/assembly.hpp"
 #include "solver/magnetostatic_system.hpp"
 #include "solver/newton.hpp"
@@ -22,16 +23,19 @@ namespace gapflux {
 
 class StaticStudy {
  public:
-  StaticStudy(std::string case_path, std::string out_dir);
+  StaticStudy(std::string case_path, std::string out_dir, FolderUse use);
   // Throws InputError (bad input) or NumericalError (after writing what exists).
   void run();
 
  private:
   void set_up();
+  void solve_and_write();  // solve, then write output (also after a numerical failure)
   void solve();
   void write_output(const std::string& failure);
 
   std::string case_path_, out_dir_;
+  FolderUse folder_use_ = FolderUse::fresh;
+  std::unique_ptr<RunFolder> folder_;
   Case case_;
   Lamination lamination_;
   MeshSettings mesh_settings_;

@@ -1,7 +1,9 @@
 #include "transient_study.hpp"
 
 #include "analysis_printout.hpp"
+#include "interrupts.hpp"
 #include "study_summary.hpp"
+#include "version.hpp"
 
 #include <fmt/format.h>
 #include <unistd.h>
@@ -9,11 +11,13 @@
 #include <algorithm>
 #include <chrono>
 #include <cmath>
+#include <csignal>
 #include <filesystem>
 #include <numbers>
 
 #include "cases/case_reader.hpp"
 #include "postproc/field_evaluation.hpp"
+#include "postproc/output_file.hpp"
 #include "postproc/result_sets.hpp"
 #include "postproc/run_analysis.hpp"
 #include "postproc/spectrum.hpp"
@@ -45,8 +49,8 @@ std::string duration_text(double seconds) {
 
 }  // namespace
 
-TransientStudy::TransientStudy(std::string case_path, std::string out_dir, bool resume)
-    : case_path_(std::move(case_path)), out_dir_(std::move(out_dir)), resume_(resume) {}
+TransientStudy::TransientStudy(std::string case_path, std::string out_dir, FolderUse use)
+    : case_path_(std::move(case_path)), out_dir_(std::move(out_dir)), folder_use_(use) {}
 
 void TransientStudy::run() {
   wall_start_s_ = now_s();
@@ -55,11 +59,32 @@ void TransientStudy::run() {
   const bool terminal = isatty(fileno(stderr));
   for (int n = first; n < grid_.steps; ++n) {
     try {
+      ensure_room_for_step(n);
       step(n);
+    } catch (const OutputError& e) {
+      // A write failed: results.h5 keeps the steps finished before (steps_done says how many).
+      // Nothing more goes to a disk that refuses writes; rows of the failed step are dropped if
+      // the file still takes that much.
+      if (terminal) fmt::print(stderr, "\n");
+      drop_unfinished_rows();
+      fmt::print(stderr,
+                 "gapflux: stopped at step {} of {}: {} steps are kept in {}; free space and "
+                 "continue with --resume\n",
+                 n + 1, grid_.steps, steps_done_, folder_->path("results.h5"));
+      throw;
     } catch (const std::exception& e) {
       // Every finished step is in results.h5 already; the summary says where it stopped.
       finish(fmt::format("step {} of {}: {}", n + 1, grid_.steps, e.what()));
       throw;
+    }
+    if (const int sig = InterruptWatch::received()) {
+      if (terminal) fmt::print(stderr, "\n");
+      const std::string where =
+          fmt::format("interrupted by {} after step {} of {}; continue with --resume",
+                      sig == SIGINT ? "SIGINT" : "SIGTERM", n + 1, grid_.steps);
+      fmt::print(stderr, "gapflux: {}\n", where);
+      finish(where);
+      throw Interrupted{sig};
     }
     const double elapsed = now_s() - wall_start_s_;
     const double left = elapsed / (n + 1 - first) * (grid_.steps - n - 1);
@@ -80,10 +105,15 @@ void TransientStudy::run() {
 
 void TransientStudy::set_up() {
   case_ = read_case_file(case_path_);
+  fingerprint_ = case_fingerprint(case_path_, case_, version_string);
   if (supply_override_) case_.supply = *supply_override_;
   materials_ = resolve_region_materials(case_);
   lamination_ = build_lamination(case_);
-  mesh_ = mesh_lamination(lamination_, resolve_mesh_settings(case_, lamination_));
+  const MeshSettings mesh_settings = resolve_mesh_settings(case_, lamination_);
+  // The case is valid: only now may the folder be locked (and, with --replace, cleared).
+  folder_ = std::make_unique<RunFolder>(out_dir_, RunFolder::run_outputs(), folder_use_);
+  if (folder_->resuming()) check_fingerprint();
+  mesh_ = mesh_lamination(lamination_, mesh_settings);
   coils_ = coil_regions(mesh_, lamination_.winding);
   grid_ = make_time_grid(case_, mesh_.stator_ring.pitch_rad);
   airgap_samples_ =
@@ -102,70 +132,15 @@ void TransientStudy::set_up() {
 
 int TransientStudy::open_results() {
   fs::create_directories(fs::path(out_dir_) / "fields");
-  const std::string path = (fs::path(out_dir_) / "results.h5").string();
-  if (resume_ && fs::exists(path)) {
-    h5_ = ResultsFile::open_existing(path);
-    const long done = h5_->read_long_attribute("/", "steps_done");
-    if (h5_->rows("mesh/nodes") != mesh_.nodes.size() ||
-        static_cast<long>(h5_->read_long_attribute("/", "steps_total")) != grid_.steps)
-      throw std::runtime_error("results.h5 in " + out_dir_ +
-                               " was not written by this case and mesh; cannot resume");
-    for (const char* d :
-         {"steps/time", "steps/rotor_angle", "steps/torque", "steps/phase_current",
-          "steps/flux_linkage", "steps/emf", "steps/newton_iterations", "steps/airgap_B_r",
-          "steps/airgap_B_theta", "steps/radial_force_density", "steps/A", "steps/B"})
-      h5_->truncate_rows(d, static_cast<std::size_t>(done));
-    if (circuit_)
-      for (const char* d : {"steps/winding_voltage", "steps/line_current", "steps/line_voltage",
-                            "steps/supply_voltage"})
-        if (h5_->exists(d)) h5_->truncate_rows(d, static_cast<std::size_t>(done));
-    for (const char* d : {"steps/newton_factorizations", "steps/cg_iterations"})
-      if (h5_->exists(d)) h5_->truncate_rows(d, static_cast<std::size_t>(done));
-    // The solver's totals carry over, so the summary counts the whole run.
-    const auto total_of = [&](const char* d) {
-      if (done == 0 || !h5_->exists(d)) return 0;
-      double sum = 0.0;
-      for (double v : h5_->read(d)) sum += v;
-      return static_cast<int>(sum);
-    };
-    newton_total_ = total_of("steps/newton_iterations");
-    factorizations_total_ = total_of("steps/newton_factorizations");
-    cg_total_ = total_of("steps/cg_iterations");
-    steps_done_ = static_cast<int>(done);
-    if (done > 0) {
-      const std::vector<double> x = h5_->read("restart/x");
-      x_last_ = Eigen::Map<const Eigen::VectorXd>(x.data(), static_cast<long>(x.size()));
-      const std::vector<double> psi = h5_->read("steps/flux_linkage");
-      for (int k = 0; k < 3; ++k) psi_last_[k] = psi[(done - 1) * 3 + k];
-      have_last_ = true;
-      if (circuit_) {
-        // The circuit's history: total linkages Λ = L_end·i + ψ of the last two steps.
-        const std::vector<double> i = h5_->read("steps/phase_current");
-        std::vector<Triple> history;
-        for (long n = done - 1; n >= std::max(0L, done - 2); --n) {
-          Triple l{};
-          for (int k = 0; k < 3; ++k)
-            l[k] = impedance_.end_inductance_h * i[n * 3 + k] + psi[n * 3 + k];
-          history.push_back(l);
-        }
-        // After one step, the start's virtual history still counts (BDF2 needs two values).
-        if (done == 1 && h5_->exists("circuit/start_history")) {
-          const std::vector<double> v = h5_->read("circuit/start_history");
-          history.push_back({v[0], v[1], v[2]});
-        }
-        circuit_->set_history(history);
-      }
-    }
-    for (int n = 0; n < done; ++n)
-      if (n % case_.output.fields_every == 0)
-        field_files_.emplace_back(grid_.time(n), fmt::format("fields/step_{:05d}.vtu", n));
-    fmt::print(stderr, "resuming at step {} of {}\n", done + 1, grid_.steps);
-    return static_cast<int>(done);
-  }
+  const std::string path = folder_->path("results.h5");
+  if (folder_->resuming()) return resume_results(path);
   h5_ = std::make_unique<ResultsFile>(path);
   h5_->attribute("/", "schema", std::string("gapflux-results/1"));
   h5_->attribute("/", "case_name", case_.machine.name);
   h5_->attribute("/", "study", std::string("time_stepping"));
+  h5_->attribute("/", "program_version", std::string(version_string));
+  h5_->attribute("/", "case_fingerprint", fingerprint_.digest);
+  h5_->write_strings("case/settings", fingerprint_.lines);
   h5_->attribute("/", "steps_total", static_cast<long>(grid_.steps));
   h5_->attribute("/", "steps_done", 0L);
   h5_->attribute("/", "converged", 0L);
@@ -187,6 +162,7 @@ int TransientStudy::open_results() {
   }
   write_mesh_datasets(*h5_, mesh_);
   h5_->flush();
+  warn_if_run_will_not_fit();
   return 0;
 }
 
@@ -251,6 +227,8 @@ void TransientStudy::step(int n) {
     for (int k = 0; k < 3; ++k) emf[k] = (psi[k] - psi_last_[k]) / grid_.dt_s;
 
   // Append the step, then mark it done: a kill between the two loses only this step.
+  std::error_code size_error;
+  const std::uint64_t file_bytes_before = fs::file_size(folder_->path("results.h5"), size_error);
   h5_->append_row("steps/time", {t}, "s");
   h5_->append_row("steps/rotor_angle", {angle}, "rad");
   h5_->append_row("steps/torque", {torque}, "N*m");
@@ -296,6 +274,8 @@ void TransientStudy::step(int n) {
   if (n % case_.output.fields_every == 0) write_fields(n, system, fields);
   h5_->attribute("/", "steps_done", static_cast<long>(n + 1));
   h5_->flush();
+
+  measure_step_bytes(size_error ? 0 : file_bytes_before, n % case_.output.fields_every == 0);
 
   x_last_ = system.x();
   shift_last_ = system.band().shift;

@@ -9,6 +9,7 @@
 #include <string>
 
 #include "cases/case.hpp"
+#include "cases/case_fingerprint.hpp"
 #include "geometry/lamination.hpp"
 #include "geometry/mesher.hpp"
 #include "materials/library.hpp"
@@ -18,6 +19,7 @@
 #include "postproc/run_analysis.hpp"
 #include "postproc/saturation.hpp"
 #include "postproc/summary.hpp"
+#include "run_folder.hpp"
 #include "solver/circuit.hpp"
 #include "solver/magnetostatic_system.hpp"
 #include "solver/time_grid.hpp"
@@ -28,8 +30,11 @@ namespace gapflux {
 
 class TransientStudy {
  public:
-  TransientStudy(std::string case_path, std::string out_dir, bool resume);
-  void run();  // throws InputError, NumericalError (after saving the finished steps)
+  // `use`: what to do with a folder that holds an earlier run (RunFolder).
+  TransientStudy(std::string case_path, std::string out_dir, FolderUse use);
+  // Throws InputError, NumericalError (after saving the finished steps), OutputError (a write
+  // failed or the disk is full: the file keeps the steps written before), Interrupted.
+  void run();
   // Replaces the case's supply (the balanced baseline of --baseline); before run().
   void override_supply(const SupplySpec& supply) { supply_override_ = supply; }
   // After run(): what summary.json holds, and where.
@@ -39,6 +44,15 @@ class TransientStudy {
  private:
   void set_up();
   int open_results();  // returns the first step to compute
+  int resume_results(const std::string& path);
+  void check_fingerprint() const;  // resuming: the stored run must have the same settings
+  // Disk room for step n's writes, from the last steps' measured sizes; throws OutputError.
+  void ensure_room_for_step(int n) const;
+  void warn_if_run_will_not_fit() const;
+  std::uint64_t estimated_step_bytes() const;
+  std::uint64_t estimated_snapshot_bytes() const;
+  void measure_step_bytes(std::uint64_t file_bytes_before, bool snapshot);
+  void drop_unfinished_rows();  // rows of steps/ past steps_done
   void step(int n);
   // A voltage feed: the start-up history from the linear steady state (before the first step).
   void start_circuit(MagnetostaticSystem& system, const RegionModel& model,
@@ -52,8 +66,10 @@ class TransientStudy {
   void finish(const std::string& failure);
 
   std::string case_path_, out_dir_;
-  bool resume_ = false;
+  FolderUse folder_use_ = FolderUse::fresh;
+  std::unique_ptr<RunFolder> folder_;
   Case case_;
+  CaseFingerprint fingerprint_;
   RegionMaterials materials_;
   Lamination lamination_;
   Mesh mesh_;
@@ -82,6 +98,8 @@ class TransientStudy {
   int steps_done_ = 0;
   double wall_start_s_ = 0.0;
   std::vector<std::pair<double, std::string>> field_files_;
+  // Bytes the last step added to results.h5 and the last snapshot's size (the disk-room guard).
+  std::uint64_t step_bytes_ = 0, snapshot_bytes_ = 0;
 };
 
 }  // namespace gapflux

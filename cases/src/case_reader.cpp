@@ -5,6 +5,7 @@
 #include <fmt/format.h>
 
 #include <cmath>
+#include <filesystem>
 #include <fstream>
 #include <numbers>
 #include <sstream>
@@ -387,8 +388,14 @@ Case read_case_text(std::string_view text, const std::string& file_name) {
 }
 
 Case read_case_file(const std::string& path) {
+  std::error_code ec;
+  if (std::filesystem::is_directory(path, ec))
+    throw InputError(path, {}, "", "is a folder, not a case file; name the case's .toml file");
   std::ifstream in(path, std::ios::binary);
-  if (!in) throw InputError(path, {}, "", "cannot open the case file");
+  if (!in)
+    throw InputError(
+        path, {}, "",
+        std::filesystem::exists(path, ec) ? "cannot read the case file" : "no such case file");
   std::stringstream buffer;
   buffer << in.rdbuf();
   return read_case_text(buffer.str(), path);

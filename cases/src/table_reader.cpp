@@ -4,6 +4,7 @@
 
 #include <toml++/toml.h>
 #include <algorithm>
+#include <sstream>
 
 namespace gapflux {
 
@@ -241,6 +242,47 @@ std::string nearest_of(std::string_view word, const std::vector<std::string>& ca
     }
   }
   return best;
+}
+
+}  // namespace gapflux
+
+namespace gapflux {
+namespace {
+
+void flatten_into(const toml::node& n, const std::string& path, std::vector<std::string>& out) {
+  if (const auto* t = n.as_table()) {
+    for (const auto& [k, v] : *t)
+      flatten_into(v, path.empty() ? std::string(k.str()) : path + "." + std::string(k.str()), out);
+    return;
+  }
+  if (const auto* a = n.as_array(); a && a->is_array_of_tables()) {
+    for (std::size_t i = 0; i < a->size(); ++i)
+      flatten_into((*a)[i], fmt::format("{}[{}]", path, i), out);
+    return;
+  }
+  if (const auto v = n.value_exact<double>()) {
+    out.push_back(fmt::format("{} = {}", path, *v));  // shortest form that reads back exactly
+    return;
+  }
+  std::ostringstream value;
+  value << toml::toml_formatter(n);
+  out.push_back(path + " = " + value.str());
+}
+
+}  // namespace
+
+std::vector<std::string> flatten_toml(std::string_view text, const std::string& file) {
+  toml::table root;
+  try {
+    root = toml::parse(text, std::string_view(file));
+  } catch (const toml::parse_error& e) {
+    throw InputError(file, to_pos(e.source()), "",
+                     fmt::format("not valid TOML: {}", e.description()));
+  }
+  std::vector<std::string> out;
+  flatten_into(root, "", out);
+  std::sort(out.begin(), out.end());
+  return out;
 }
 
 }  // namespace gapflux

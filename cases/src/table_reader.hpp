@@ -59,6 +59,10 @@ class TableReader {
   std::vector<std::string> known_;
 };
 
+// Every value of a TOML document as "dotted.key = value" (arrays of tables as key[i]), sorted:
+// the same lines for the same settings whatever the comments, spacing and order.
+std::vector<std::string> flatten_toml(std::string_view text, const std::string& file);
+
 // Edit distance, for "did you mean".
 std::size_t edit_distance(std::string_view a, std::string_view b);
 std::string nearest_of(std::string_view word, const std::vector<std::string>& candidates);

@@ -3,6 +3,7 @@
 
 #include <charconv>
 #include <cmath>
+#include <filesystem>
 #include <fstream>
 #include <numbers>
 #include <sstream>
@@ -29,6 +30,9 @@ bool parse_number(const std::string& text, double& value) {
 }  // namespace
 
 WaveformTable read_waveform_csv(const std::string& path, const std::string& key_path) {
+  std::error_code ec;
+  if (std::filesystem::is_directory(path, ec))
+    throw std::runtime_error(fmt::format("{} is a folder, not a CSV table", path));
   std::ifstream in(path);
   if (!in) throw std::runtime_error(fmt::format("cannot open the waveform table {}", path));
   WaveformTable w;

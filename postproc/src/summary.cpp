@@ -1,5 +1,7 @@
 #include "postproc/summary.hpp"
 
+#include "postproc/output_file.hpp"
+
 #include <fstream>
 #include <nlohmann/json.hpp>
 #include <stdexcept>
@@ -360,9 +362,7 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
       "Decisions on derating, protection settings or continued operation of a motor follow the "
       "applicable standards and local codes, the motor's maker and licensed engineering practice, "
       "not these figures alone."};
-  std::ofstream out(path);
-  out << j.dump(2) << "\n";
-  if (!out) throw std::runtime_error("cannot write " + path);
+  write_file_whole(path, j.dump(2) + "\n");
 }
 
 }  // namespace gapflux

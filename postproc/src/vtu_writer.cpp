@@ -12,10 +12,25 @@
 #include <vtkUnstructuredGrid.h>
 #include <vtkXMLUnstructuredGridWriter.h>
 
-#include <fstream>
-#include <stdexcept>
+#include <sstream>
+
+#include "postproc/output_file.hpp"
 
 namespace gapflux {
+namespace {
+
+// VTK renders the file into memory; our own checked writer puts it on disk whole (VTK's file
+// output does not report a full disk).
+void write_grid(const std::string& path, vtkUnstructuredGrid* grid) {
+  vtkNew<vtkXMLUnstructuredGridWriter> writer;
+  writer->WriteToOutputStringOn();
+  writer->SetInputData(grid);
+  writer->SetDataModeToBinary();
+  if (writer->Write() != 1) throw OutputError(path, "VTK could not render the grid");
+  write_file_whole(path, writer->GetOutputString());
+}
+
+}  // namespace
 
 void write_mesh_vtu(const std::string& path, const Mesh& mesh, const BandMesh* band,
                     const std::vector<std::pair<std::string, std::vector<double>>>& cell_fields) {
@@ -88,11 +103,7 @@ void write_mesh_vtu(const std::string& path, const Mesh& mesh, const BandMesh* b
   grid->GetFieldData()->AddArray(ids);
   grid->GetFieldData()->AddArray(names);
 
-  vtkNew<vtkXMLUnstructuredGridWriter> writer;
-  writer->SetFileName(path.c_str());
-  writer->SetInputData(grid);
-  writer->SetDataModeToBinary();
-  if (writer->Write() != 1) throw std::runtime_error("cannot write " + path);
+  write_grid(path, grid);
 }
 
 }  // namespace gapflux
@@ -140,21 +151,17 @@ void write_fields_vtu(const std::string& path, int order, const FieldSnapshot& s
   region->SetName("region_id");
   for (int r : s.region_id) region->InsertNextValue(r);
   grid->GetCellData()->AddArray(region);
-  vtkNew<vtkXMLUnstructuredGridWriter> writer;
-  writer->SetFileName(path.c_str());
-  writer->SetInputData(grid);
-  writer->SetDataModeToBinary();
-  if (writer->Write() != 1) throw std::runtime_error("cannot write " + path);
+  write_grid(path, grid);
 }
 
 void write_pvd(const std::string& path, const std::vector<std::pair<double, std::string>>& files) {
-  std::ofstream out(path);
+  std::ostringstream out;
   out << "<?xml version=\"1.0\"?>\n<VTKFile type=\"Collection\" version=\"0.1\">\n  <Collection>\n";
   out.precision(17);
   for (const auto& [time, file] : files)
     out << "    <DataSet timestep=\"" << time << "\" part=\"0\" file=\"" << file << "\"/>\n";
   out << "  </Collection>\n</VTKFile>\n";
-  if (!out) throw std::runtime_error("cannot write " + path);
+  write_file_whole(path, out.str());
 }
 
 }  // namespace gapflux

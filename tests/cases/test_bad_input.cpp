@@ -258,7 +258,7 @@ TEST_CASE("a missing case file is bad input too", "[cases][cli]") {
   const auto result =
       test::run_command(fmt::format("{} check /nonexistent/case.toml", GAPFLUX_BINARY));
   CHECK(result.exit_code == 2);
-  CHECK_THAT(result.output, Catch::Contains("cannot open the case file"));
+  CHECK_THAT(result.output, Catch::Contains("no such case file"));
 }
 
 TEST_CASE("the demo cases pass the check", "[cases][cli]") {

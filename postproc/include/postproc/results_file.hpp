@@ -1,7 +1,8 @@
 #pragma once
 // results.h5 (the only file that sees HDF5 is results_file.cpp). Every dataset carries a
 // `units` attribute; the file is flushed after each write so that what is written stays
-// readable if the run is killed. Layout: docs/results.md.
+// readable if the run is killed. Layout: docs/results.md. Every operation that fails throws
+// OutputError (postproc/output_file.hpp) naming the file; nothing is left to a destructor.
 #include <memory>
 #include <string>
 #include <vector>
@@ -35,12 +36,20 @@ class ResultsFile {
   // Drops rows past `rows` (a run killed between its appends and its `steps_done` update).
   void truncate_rows(const std::string& path, std::size_t rows);
   std::vector<double> read(const std::string& path) const;
+  std::vector<std::string> read_strings(const std::string& path) const;
   long read_long_attribute(const std::string& object, const std::string& name) const;
+  // "" when the attribute is absent.
+  std::string read_string_attribute(const std::string& object, const std::string& name) const;
   bool exists(const std::string& path) const;
+  // Names of the objects in a group (empty if the group does not exist).
+  std::vector<std::string> members(const std::string& group) const;
   void flush();
 
  private:
   ResultsFile() = default;
+  void append_row_unguarded(const std::string& path, const std::vector<double>& row,
+                            const std::string& units);
+  void write_strings_unguarded(const std::string& path, const std::vector<std::string>& data);
   struct State;
   std::unique_ptr<State> state_;
 };
