@@ -30,8 +30,8 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
                          const MeshSettings& mesh) {
   const auto& s = c.stator.slot;
   fmt::print(out, "# resolved case: {}\n", c.file);
-  fmt::print(out, "[machine]\nname = \"{}\"\npoles = {}\nstack_length_mm = {:g}\n\n",
-             c.machine.name, c.machine.poles, c.machine.stack_length_m / mm);
+  fmt::print(out, "[machine]\nname = {}\npoles = {}\nstack_length_mm = {:g}\n\n",
+             quote_text(c.machine.name), c.machine.poles, c.machine.stack_length_m / mm);
   fmt::print(out, "[stator]\nouter_diameter_mm = {:g}\nbore_diameter_mm = {:g}\nslots = {}\n\n",
              c.stator.outer_diameter_m / mm, c.stator.bore_diameter_m / mm, c.stator.slots);
   fmt::print(out, "[stator.slot]\nshape = \"{}\"\nslot_depth_mm = {:g}\n", to_string(s.shape),
@@ -87,10 +87,10 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
       "\n[winding]\nlayers = {}\ncoil_pitch_slots = {}\nturns_per_coil = {}\nparallel_paths = {}\n",
       w.layers, w.coil_pitch_slots, w.turns_per_coil, w.parallel_paths);
   const auto& m = c.materials;
-  fmt::print(out,
-             "\n[materials]\nstator_iron = \"{}\"\nrotor_iron = \"{}\"\ncoils = \"{}\"\nbars = "
-             "\"{}\"\nshaft = \"{}\"\n",
-             m.stator_iron, m.rotor_iron, m.coils, m.bars, m.shaft);
+  fmt::print(
+      out, "\n[materials]\nstator_iron = {}\nrotor_iron = {}\ncoils = {}\nbars = {}\nshaft = {}\n",
+      quote_text(m.stator_iron), quote_text(m.rotor_iron), quote_text(m.coils), quote_text(m.bars),
+      quote_text(m.shaft));
   const auto& sp = c.supply;
   fmt::print(out, "\n[supply]\nfeed = \"{}\"\nfrequency_hz = {:.9g}{}\n", to_string(sp.feed),
              sp.frequency_hz, sp.frequency_detected ? "  # detected from the waveform table" : "");

@@ -3,23 +3,69 @@
 #include <fmt/format.h>
 #include <CLI/CLI.hpp>
 
+#include <charconv>
 #include <iostream>
+#include <string>
+#include <vector>
 
 #include "cases/input_error.hpp"
 #include "commands.hpp"
 #include "postproc/output_file.hpp"
 #include "version.hpp"
 
+namespace {
+
+constexpr int max_threads = 1024;
+
+// CLI11's own range check prints its bound with 309 digits; this one says what is valid.
+std::string thread_count_error(std::string& text) {
+  int value = -1;
+  const auto [end, ec] = std::from_chars(text.data(), text.data() + text.size(), value);
+  if (ec == std::errc() && end == text.data() + text.size() && value >= 0 && value <= max_threads)
+    return "";
+  return fmt::format(
+      "{} is not a thread count: give a whole number from 1 to {}, or 0 for all cores",
+      gapflux::quote_text(text), max_threads);
+}
+
+// The first word that is not an option must name a command: CLI11 alone answers a misspelt
+// command with "A subcommand is required".
+std::string unknown_command(int argc, char** argv, const std::vector<std::string>& commands) {
+  for (int i = 1; i < argc; ++i) {
+    const std::string word = argv[i];
+    if (word == "--threads") {
+      ++i;  // its value
+      continue;
+    }
+    if (word.starts_with("-")) continue;
+    for (const std::string& c : commands)
+      if (word == c) return "";
+    return word;
+  }
+  return "";
+}
+
+}  // namespace
+
 int main(int argc, char** argv) {
   using namespace gapflux;
+  const std::vector<std::string> commands{"check", "mesh", "run"};
+  if (const std::string word = unknown_command(argc, argv, commands); !word.empty()) {
+    std::cerr << fmt::format(
+        "gapflux: error: unknown command {}; the commands are {} (see "
+        "gapflux --help)\n",
+        quote_text(word), fmt::join(commands, ", "));
+    return 2;
+  }
   CLI::App app{
       "gapflux: 2-D finite-element field simulation of induction-motor laminations "
       "under disturbed supplies"};
   app.require_subcommand(1);
+  app.fallthrough();  // --threads may come before or after the command
   app.set_version_flag("--version", fmt::format("gapflux {}", version_string));
   CommonOptions options;
   app.add_option("--threads", options.threads, "worker threads (default: all cores)")
-      ->check(CLI::NonNegativeNumber);
+      ->check(CLI::Validator(thread_count_error, "N"));
 
   std::string case_path, out_dir;
   auto* check = app.add_subcommand("check",

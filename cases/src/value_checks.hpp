@@ -68,7 +68,8 @@ inline std::size_t choice(TableReader& t, const std::string& key,
   }
   for (std::size_t i = 0; i < options.size(); ++i)
     if (options[i] == *v) return i;
-  std::string msg = fmt::format("must be one of: {} (got \"{}\")", fmt::join(options, ", "), *v);
+  std::string msg =
+      fmt::format("must be one of: {} (got {})", fmt::join(options, ", "), quote_text(*v));
   if (auto guess = nearest_of(*v, options); !guess.empty())
     msg += fmt::format("; did you mean \"{}\"?", guess);
   throw t.error(key, msg);

@@ -57,8 +57,8 @@ WaveformTable read_waveform_csv(const std::string& path, const std::string& key_
       }
       throw InputError(
           path, {line_no, 1}, key_path,
-          fmt::format("expected 4 numbers (time_s and the three phase values), found \"{}\"",
-                      trim(line)));
+          fmt::format("expected 4 numbers (time_s and the three phase values), found {}",
+                      quote_text(trim(line))));
     }
     seen_data_line = true;
     if (!w.time_s.empty() && !(v[0] > w.time_s.back()))

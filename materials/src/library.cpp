@@ -170,15 +170,14 @@ Material lookup(const Case& c, const std::string& key, const std::string& name,
     if (d.name == name) defined = from_definition(c, d);
   if (defined) m = &*defined;
   if (!m)
-    throw c.sources.error(
-        "materials." + key,
-        fmt::format("unknown material \"{}\"; define it under [materials.define.{}] "
-                    "or use a built-in one for {}: {}",
-                    name, name, what, names_of(accept)));
+    throw c.sources.error("materials." + key,
+                          fmt::format("unknown material {}; define it under [materials.define.{}] "
+                                      "or use a built-in one for {}: {}",
+                                      quote_text(name), quote_text(name), what, names_of(accept)));
   if (!accept(m->kind))
     throw c.sources.error("materials." + key,
-                          fmt::format("\"{}\" cannot be used for {}; choose one of: {}", name, what,
-                                      names_of(accept)));
+                          fmt::format("{} cannot be used for {}; choose one of: {}",
+                                      quote_text(name), what, names_of(accept)));
   return *m;
 }
 

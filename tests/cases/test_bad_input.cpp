@@ -65,6 +65,9 @@ const BadCase catalogue[] = {
      "wedge_angle_deg"},
     {"misspelt shape value", "pump_4p36s.toml", "shape = \"semi_closed\"",
      "shape = \"semi-closed\"", "stator.slot.shape", "did you mean \"semi_closed\"", "semi-closed"},
+    {"a value holding a newline is echoed escaped, on one line", "pump_4p36s.toml",
+     "shape = \"semi_closed\"", "shape = \"semi\\nclosed\\u001b[31m\"", "stator.slot.shape",
+     "(got \"semi\\nclosed\\u001B[31m\")", "semi\\nclosed"},
     {"key that the chosen body does not use", "pump_4p36s.toml", "tooth_width_mm = 5.6",
      "tooth_width_mm = 5.6\nslot_width_mm = 6.0", "stator.slot.slot_width_mm", "does not apply",
      "slot_width_mm"},
@@ -259,6 +262,50 @@ TEST_CASE("a missing case file is bad input too", "[cases][cli]") {
       test::run_command(fmt::format("{} check /nonexistent/case.toml", GAPFLUX_BINARY));
   CHECK(result.exit_code == 2);
   CHECK_THAT(result.output, Catch::Contains("no such case file"));
+}
+
+TEST_CASE("command-line mistakes get a message that says what is valid", "[cases][cli]") {
+  const std::string demo = test::example("pump_4p36s.toml");
+  SECTION("an unknown command") {
+    const auto r = test::run_command(fmt::format("{} chek {}", GAPFLUX_BINARY, demo));
+    CHECK(r.exit_code == 2);
+    CHECK_THAT(r.output,
+               Catch::Contains("unknown command \"chek\"; the commands are check, mesh, run"));
+  }
+  SECTION("a thread count that is not a number") {
+    const auto r =
+        test::run_command(fmt::format("{} --threads abc check {}", GAPFLUX_BINARY, demo));
+    CHECK(r.exit_code == 2);
+    CHECK_THAT(r.output, Catch::Contains(
+                             "\"abc\" is not a thread count: give a whole number from 1 to 1024"));
+    CHECK(r.output.size() < 300);  // no 309-digit bound
+  }
+  SECTION("--threads after the command") {
+    const auto r = test::run_command(fmt::format("{} check {} --threads 1", GAPFLUX_BINARY, demo));
+    CHECK(r.exit_code == 0);
+  }
+  SECTION("a folder given as the case file") {
+    const auto r =
+        test::run_command(fmt::format("{} check {}", GAPFLUX_BINARY, GAPFLUX_EXAMPLES_DIR));
+    CHECK(r.exit_code == 2);
+    CHECK_THAT(r.output, Catch::Contains("is a folder, not a case file"));
+  }
+  SECTION("a folder given as the supply's waveform table") {
+    const auto dir = test::temp_dir("waveform_folder");
+    std::filesystem::create_directories(dir / "table.csv");
+    const auto path = dir / "case.toml";
+    std::string text = test::read_text(demo);
+    const auto at = text.find("[supply]");
+    REQUIRE(at != std::string::npos);
+    text = text.substr(0, at) + "[supply]\n[supply.waveform]\nfile = \"table.csv\"\n" +
+           text.substr(text.find("\n[", at + 1));
+    test::write_text(path, text);
+    const auto r = test::run_command(fmt::format("{} check {}", GAPFLUX_BINARY, path.string()));
+    INFO(r.output);
+    CHECK(r.exit_code == 2);
+    CHECK_THAT(r.output, Catch::Contains("supply.waveform.file"));
+    CHECK_THAT(r.output, Catch::Contains("is a folder, not a CSV table"));
+  }
 }
 
 TEST_CASE("the demo cases pass the check", "[cases][cli]") {

@@ -4,6 +4,7 @@
 #include <map>
 #include <stdexcept>
 #include <string>
+#include <string_view>
 
 namespace gapflux {
 
@@ -11,6 +12,11 @@ struct SourcePos {
   int line = 0;    // 1-based; 0 when unknown
   int column = 0;  // 1-based; 0 when unknown
 };
+
+// A user's text as it may be echoed in a message or a printout: in double quotes, with
+// quotes, backslashes and control characters (newlines, escape sequences) escaped as TOML
+// writes them, so that a value can never break a message's line or a terminal's state.
+std::string quote_text(std::string_view text);
 
 class InputError : public std::runtime_error {
  public:
