@@ -146,11 +146,13 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
                  names[1], h.rms[1], unit, wrapped_deg(h.angle_rad[1]), names[2], h.rms[2], unit,
                  wrapped_deg(h.angle_rad[2]));
   }
-  fmt::print(out,
-             "\n[mesh]\norder = {}\nairgap_size_mm = {:g}\niron_size_mm = {:g}\ngrowth_rate = "
-             "{:g}\nband_nodes = {}\nsymmetry = \"{}\"\n",
-             mesh.order, mesh.airgap_size_m / mm, mesh.iron_size_m / mm, mesh.growth_rate,
-             mesh.band_nodes, to_string(c.mesh.symmetry));
+  fmt::print(
+      out,
+      "\n[mesh]\norder = {}\nairgap_size_mm = {:g}\niron_size_mm = {:g}\ngrowth_rate = "
+      "{:g}\nband_nodes = {}\nsymmetry = \"{}\"\n# about {:.0f} thousand triangles expected in "
+      "the modelled sector\n",
+      mesh.order, mesh.airgap_size_m / mm, mesh.iron_size_m / mm, mesh.growth_rate, mesh.band_nodes,
+      to_string(c.mesh.symmetry), mesh.forecast.triangles / 1e3);
   const StudySpec& st = c.study;
   const bool stepping = st.kind == StudyKind::time_stepping;
   fmt::print(out, "\n[study]\nkind = \"{}\"\nrotor_angle_deg = {:g}\ntime_s = {:g}\n",

@@ -53,6 +53,7 @@ Prepared prepare(const std::string& case_path) {
 int command_check(const std::string& case_path, const CommonOptions&) {
   const Prepared p = prepare(case_path);
   print_resolved_case(std::cout, p.c, p.lamination, p.mesh_settings);
+  for (const std::string& w : p.mesh_settings.forecast.warnings) fmt::print("warning: {}\n", w);
   if (p.c.study.kind == StudyKind::time_stepping)
     fmt::print(
         "time_grid = {{ steps = {}, steps_per_period = {}, dt_s = {:.6e}, rotor_speed_rpm = "
@@ -76,6 +77,8 @@ int command_mesh(const std::string& case_path, const std::string& out_dir,
   const Prepared p = prepare(case_path);
   const RunFolder folder(out_dir, {"mesh.vtu"},
                          options.replace ? FolderUse::replace : FolderUse::fresh);
+  for (const std::string& w : p.mesh_settings.forecast.warnings)
+    fmt::print(stderr, "warning: {}\n", w);
   const Mesh mesh = mesh_lamination(p.lamination, p.mesh_settings);
   const MeshQuality quality = mesh_quality(mesh);
   const BandMesh band = build_moving_band(mesh, 0.0);

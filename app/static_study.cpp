@@ -68,6 +68,8 @@ void StaticStudy::set_up() {
   materials_ = resolve_region_materials(case_);
   lamination_ = build_lamination(case_);
   mesh_settings_ = resolve_mesh_settings(case_, lamination_);
+  for (const std::string& w : mesh_settings_.forecast.warnings)
+    fmt::print(stderr, "warning: {}\n", w);
   check_supply_at_instant(case_, case_.study.time_s);
   // The case is valid: only now may the folder be locked (and, with --replace, cleared).
   folder_ = std::make_unique<RunFolder>(out_dir_, RunFolder::run_outputs(), folder_use_);

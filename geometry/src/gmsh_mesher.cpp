@@ -224,6 +224,7 @@ MeshSettings resolve_mesh_settings(const Case& c, const Lamination& lam) {
     const int wanted = static_cast<int>(std::ceil(circumference / s.airgap_size_m));
     s.band_nodes = (wanted + multiple - 1) / multiple * multiple;
   }
+  s.forecast = forecast_mesh(c, lam, s);
   return s;
 }
 

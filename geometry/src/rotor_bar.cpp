@@ -84,8 +84,11 @@ BarShapes build_rotor_bar(const Case& c) {
       const Vec2 c1{x_top - r1, 0.0}, c2{x_top - b.height_m + r2, 0.0};
       x_bottom = x_top - b.height_m;
       top_width = 2.0 * r1;
-      // Common outer tangents: unit normal n with n·(c1 − c2) = r1 − r2.
-      const double nx = (r1 - r2) / (c1.x() - c2.x());
+      // Common outer tangents: the tangent points c_i + r_i·n share the outward normal n, and
+      // the tangent line n·x = n·c1 + r1 = n·c2 + r2 gives n·(c1 − c2) = r2 − r1. The case
+      // reader's height > 2·max(r1, r2) keeps |r2 − r1| < d, so the tangent exists.
+      const double d = c1.x() - c2.x();
+      const double nx = (r2 - r1) / d;
       const double tangent_angle = std::acos(nx);  // of the upper tangent point, on both circles
       const double a = tangent_angle;
       std::vector<double> top_angles = {-a, 0.0, a};

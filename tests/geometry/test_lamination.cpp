@@ -105,10 +105,13 @@ TEST_CASE("open flat-bottomed slot: rectangle less the bore's circular segment",
 TEST_CASE("bars: round, teardrop and rectangular areas in closed form", "[geometry]") {
   {
     const Lamination lam = build_lamination(read_case_file(test::example("pump_4p36s.toml")));
-    // Teardrop of end radii r1, r2 with centres d apart, tangent angle a (cos a = (r1 − r2)/d):
-    // two sectors r1²·a + r2²·(π − a) plus two right trapezoids (r1 + r2)·d·sin a.
+    // Teardrop of end radii r1 (outer) and r2 with centres d apart, joined by their common
+    // outer tangents. From the outer centre, the tangent point lies at angle a from the bar's
+    // axis with cos a = −(r1 − r2)/d (the tangent from a point, r2 → 0, gives the textbook
+    // cos(π − a) = r1/d): more than a half circle of the larger end shows. Area: two sectors
+    // r1²·a + r2²·(π − a) plus two right trapezoids (r1 + r2)·d·sin a (plane geometry).
     const double r1 = 0.0026, r2 = 0.0014, d = 0.016 - r1 - r2;
-    const double a = std::acos((r1 - r2) / d);
+    const double a = std::acos(-(r1 - r2) / d);
     const double teardrop = r1 * r1 * a + r2 * r2 * (pi - a) + (r1 + r2) * d * std::sin(a);
     CHECK(lam.bar.bar_area_m2 == Approx(teardrop).epsilon(1e-12));
     CHECK(area_of_kind(lam, RegionKind::bar) == Approx(7 * teardrop).epsilon(1e-12));

@@ -184,3 +184,28 @@ TEST_CASE("full model: closed rings, no sector edges, the whole disk", "[geometr
   CHECK(exact == Approx(pi * 0.1 * 0.1).epsilon(1e-9));
   CHECK(mesh_quality(m.mesh).min_angle_deg >= 20.0);
 }
+
+TEST_CASE("the mesh forecast: triangle count within a factor 1.5, thin features named",
+          "[geometry]") {
+  // The estimate is an order-of-magnitude guard against meshes far too large; a factor 1.5
+  // either way is what it promises (the factor it applies is calibrated on these examples).
+  for (const char* name :
+       {"pump_4p36s.toml", "compressor_2p24s.toml", "reference_radial_4p24s.toml"}) {
+    const Meshed m = mesh_example(name);
+    const MeshSettings s = resolve_mesh_settings(m.c, m.lam);
+    INFO(name << ": " << m.mesh.n_triangles() << " triangles, forecast " << s.forecast.triangles);
+    CHECK(s.forecast.triangles > m.mesh.n_triangles() / 1.5);
+    CHECK(s.forecast.triangles < m.mesh.n_triangles() * 1.5);
+    CHECK(s.forecast.warnings.empty());
+  }
+  // A legal but thin bridge under coarse airgap elements: warned, naming its key.
+  std::string text = test::read_text(test::example("pump_4p36s.toml"));
+  text.replace(text.find("bridge_thickness_mm = 0.5"), 25, "bridge_thickness_mm = 0.06");
+  text.replace(text.find("[mesh]"), 6, "[mesh]\nairgap_size_mm = 0.5");
+  const Case c = read_case_text(text, "thin_bridge.toml");
+  const Lamination lam = build_lamination(c);
+  const MeshSettings s = resolve_mesh_settings(c, lam);
+  REQUIRE(s.forecast.warnings.size() == 1);
+  CHECK_THAT(s.forecast.warnings[0], Catch::Contains("rotor.bar.bridge_thickness_mm: the bar "
+                                                     "bridge is 0.06 mm wide"));
+}
