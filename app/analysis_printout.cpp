@@ -90,16 +90,21 @@ void print_analysis_table(std::FILE* out, const RunAnalysis& a, double torque_me
 }
 
 void print_saturation_table(std::FILE* out, const SaturationMap& s) {
-  fmt::print(out, "  saturation over the last period: peak |B| {:.3f} T; highest zones:\n",
+  fmt::print(out,
+             "  saturation over the last period: peak |B| {:.3f} T; highest zones (by p95, "
+             "area-weighted):\n",
              s.peak_tesla_overall);
   std::vector<const SaturationZone*> zones;
   for (const SaturationZone& z : s.zones) zones.push_back(&z);
   std::sort(zones.begin(), zones.end(),
-            [](const auto* a, const auto* b) { return a->peak_tesla > b->peak_tesla; });
+            [](const auto* a, const auto* b) { return a->p95_tesla > b->p95_tesla; });
   for (std::size_t i = 0; i < zones.size() && i < 6; ++i) {
     const SaturationZone& z = *zones[i];
-    fmt::print(out, "    {:<30} peak {:.3f} T, {:5.1f} % of its area above {:.2f} T{}\n", z.name,
-               z.peak_tesla, 100.0 * z.area_fraction_over, z.threshold_tesla,
+    fmt::print(out,
+               "    {:<30} median {:.3f} T, p95 {:.3f} T, peak {:.3f} T, {:5.1f} % of its area "
+               "above {:.2f} T{}\n",
+               z.name, z.median_tesla, z.p95_tesla, z.peak_tesla, 100.0 * z.area_fraction_over,
+               z.threshold_tesla,
                z.tooth >= 0 ? fmt::format(" (at {:.1f}°, nearest phase {} axis)", z.angle_deg,
                                           z.nearest_phase)
                             : std::string());

@@ -140,9 +140,7 @@ void StaticStudy::write_output(const std::string& failure) {
     }
     h5.write("energy/region_energy", energy, "J");
     h5.write("energy/region_coenergy", coenergy, "J");
-    std::vector<double> history;
-    for (const NewtonIteration& it : report_.history) history.push_back(it.relative_residual);
-    h5.write("solver/relative_residual", history, "1");
+    h5.write("solver/relative_residual", report_.residuals(), "1");
     h5.flush();
   }
   {
@@ -188,10 +186,8 @@ void StaticStudy::write_output(const std::string& failure) {
   s.cg_iterations = report_.cg_iterations;
   s.converged = failure.empty();
   s.wall_s = now_s() - wall_start_s_;
-  for (const NewtonIteration& it : report_.history) {
-    s.residual_history.push_back(it.relative_residual);
-    s.step_history.push_back(it.step);
-  }
+  s.residual_history = report_.residuals();
+  for (const NewtonIteration& it : report_.history) s.step_history.push_back(it.step);
   s.failure = failure;
   write_summary_json((fs::path(out_dir_) / "summary.json").string(), s);
 

@@ -11,19 +11,19 @@ namespace gapflux {
 
 namespace fs = std::filesystem;
 
-SaturationMap TransientStudy::saturation_over_last_period(int done) {
+SaturationMap TransientStudy::saturation_over_last_period(int done,
+                                                          const std::vector<double>& all) {
   const std::size_t nt = mesh_.n_triangles();
   const int spp = grid_.steps_per_period;
-  const std::vector<double> all = h5_->read("steps/B");
   const std::vector<double> b_last(all.begin() + static_cast<long>(done - spp) * nt * 2,
                                    all.begin() + static_cast<long>(done) * nt * 2);
   std::vector<double> last(b_last.size() / 2);
   for (std::size_t i = 0; i < last.size(); ++i)
     last[i] = std::hypot(b_last[2 * i], b_last[2 * i + 1]);
-  // The threshold: the case's, else each iron's knee (none for a linear material).
+  // The threshold: the case's, else each iron's deep saturation (none for a linear material).
   const auto knee = [&](const Material& m) {
     if (case_.output.saturation_threshold_tesla > 0) return case_.output.saturation_threshold_tesla;
-    return m.curve ? m.curve->knee_tesla() : 0.0;
+    return m.curve ? m.curve->deep_saturation_tesla() : 0.0;
   };
   std::vector<double> threshold(nt, 0.0);
   for (std::size_t t = 0; t < nt; ++t) {
@@ -50,12 +50,14 @@ SaturationMap TransientStudy::saturation_over_last_period(int done) {
   h5_->write("saturation/threshold", threshold, "T");
   h5_->write("saturation/zone", map.zone, "1");
   std::vector<std::string> names, phases;
-  std::vector<double> peak, fraction, angle;
+  std::vector<double> peak, median, p95, fraction, angle;
   std::vector<int> tooth;
   for (const SaturationZone& z : map.zones) {
     names.push_back(z.name);
     phases.push_back(z.nearest_phase);
     peak.push_back(z.peak_tesla);
+    median.push_back(z.median_tesla);
+    p95.push_back(z.p95_tesla);
     fraction.push_back(z.area_fraction_over);
     angle.push_back(z.angle_deg);
     tooth.push_back(z.tooth);
@@ -63,6 +65,8 @@ SaturationMap TransientStudy::saturation_over_last_period(int done) {
   h5_->write_strings("saturation/zones/name", names);
   h5_->write_strings("saturation/zones/nearest_phase", phases);
   h5_->write("saturation/zones/peak_B", peak, "T");
+  h5_->write("saturation/zones/median_B", median, "T");
+  h5_->write("saturation/zones/p95_B", p95, "T");
   h5_->write("saturation/zones/area_fraction_over", fraction, "1");
   h5_->write("saturation/zones/angle", angle, "deg");
   h5_->write("saturation/zones/tooth", tooth, "1");

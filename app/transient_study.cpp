@@ -356,8 +356,14 @@ void TransientStudy::finish(const std::string& failure) {
     s.end_inductance_estimated = r.end_inductance_estimated;
   }
   write_analysis(*h5_, *s.analysis);
+  s.flux_linkage_wb = psi_last_;
+  // |B| per triangle and step, the retained steps' rows of steps/B.
+  const std::vector<double> b_rows = done > 0 ? h5_->read("steps/B") : std::vector<double>{};
+  for (std::size_t i = 2 * mesh_.n_triangles() * grid_.discarded_steps; i + 1 < b_rows.size();
+       i += 2)
+    s.b_peak_tesla = std::max(s.b_peak_tesla, std::hypot(b_rows[i], b_rows[i + 1]));
   if (s.analysis->periods >= 1) {
-    s.saturation = saturation_over_last_period(done);
+    s.saturation = saturation_over_last_period(done, b_rows);
     s.losses_available = true;
     s.iron_stator_w = iron_loss_.stator_w;
     s.iron_rotor_w = iron_loss_.rotor_w;

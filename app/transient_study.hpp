@@ -61,8 +61,9 @@ class TransientStudy {
   void write_fields(int n, const MagnetostaticSystem& system, const ElementFields& fields);
   // Peak |B| and time over the threshold per triangle over the last period, written to
   // results.h5 (saturation/) and saturation.vtu.
-  SaturationMap saturation_over_last_period(int done);  // also fills iron_loss_
-  RunRecord read_record(int done) const;                // the finished steps, for the analysis
+  // `b_rows`: steps/B as read (the finished steps' rows).
+  SaturationMap saturation_over_last_period(int done, const std::vector<double>& b_rows);
+  RunRecord read_record(int done) const;  // the finished steps, for the analysis
   void finish(const std::string& failure);
 
   std::string case_path_, out_dir_;

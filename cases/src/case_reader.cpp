@@ -352,7 +352,8 @@ OutputSpec parse_output(std::optional<TableReader> t) {
       t->has("airgap_samples") ? integer_in(*t, "airgap_samples", {}, 16, 1 << 20) : 0;
   if (!t->has("airgap_samples")) t->know("airgap_samples");
   o.saturation_threshold_tesla =
-      number_in(*t, "saturation_threshold_tesla", 0.0, 0.0, 5.0, "T (0: each iron's knee)");
+      number_in(*t, "saturation_threshold_tesla", 0.0, 0.0, 5.0,
+                "T (0: each iron's deep saturation, differential μr 10)");
   t->finish();
   return o;
 }

@@ -141,4 +141,17 @@ double BHCurve::knee_tesla() const {
   return b_.back();
 }
 
+double BHCurve::b_at_differential_mu_r(double mu_r) const {
+  double best = 0.0;
+  std::size_t at = 0;
+  for (std::size_t i = 0; i < b_.size(); ++i)
+    if (1.0 / slope_[i] > best) {
+      best = 1.0 / slope_[i];
+      at = i;
+    }
+  for (double b = b_[at]; b < b_.back(); b += 1e-3)
+    if (1.0 / (mu0 * dh_db(b)) < mu_r) return b;
+  return b_.back();
+}
+
 }  // namespace gapflux

@@ -28,6 +28,19 @@ std::string nearest_phase(double angle_el_rad, const WindingLayout& w) {
 
 }  // namespace
 
+double area_percentile(std::vector<std::pair<double, double>> value_area, double q) {
+  if (value_area.empty()) return 0.0;
+  std::sort(value_area.begin(), value_area.end());
+  double total = 0.0;
+  for (const auto& [v, a] : value_area) total += a;
+  double below = 0.0;
+  for (const auto& [v, a] : value_area) {
+    below += a;
+    if (below >= q * total) return v;
+  }
+  return value_area.back().first;
+}
+
 SaturationMap saturation_map(const Mesh& mesh, const Lamination& lam,
                              const std::vector<double>& b_abs_rows, int steps, double dt_s,
                              const std::vector<double>& threshold_tesla) {
@@ -102,6 +115,16 @@ SaturationMap saturation_map(const Mesh& mesh, const Lamination& lam,
   }
   for (SaturationZone& z : s.zones)
     if (z.area_m2 > 0) z.area_fraction_over /= z.area_m2;
+  // Area-weighted percentiles of the per-triangle peaks: the peak itself often sits in one
+  // small triangle at a sharp corner, where the field of a corner grows as the mesh refines.
+  std::vector<std::vector<std::pair<double, double>>> by_zone(s.zones.size());
+  for (std::size_t t = 0; t < nt; ++t)
+    if (s.zone[t] >= 0)
+      by_zone[s.zone[t]].emplace_back(s.peak_tesla[t], std::abs(triangle_area(mesh, t)));
+  for (std::size_t z = 0; z < s.zones.size(); ++z) {
+    s.zones[z].median_tesla = area_percentile(by_zone[z], 0.5);
+    s.zones[z].p95_tesla = area_percentile(by_zone[z], 0.95);
+  }
   // Stator zones by tooth, then the rotor's; the triangles' zone indices follow.
   std::vector<int> by_tooth(s.zones.size());
   for (std::size_t i = 0; i < by_tooth.size(); ++i) by_tooth[i] = static_cast<int>(i);

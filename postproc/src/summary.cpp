@@ -156,16 +156,23 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                   {"series_turns_per_phase", s.series_turns_per_phase},
                   {"phase_axis_deg_el", s.phase_axis_deg_el},
                   {"factors", factors}};
-  j["supply"] = {{"frequency_hz", s.frequency_hz},
-                 {"feed", s.voltage_fed ? "voltage" : "current"},
-                 {"instant",
-                  {{"time_s", s.time_s},
-                   {"rotor_angle_deg", s.rotor_angle_deg},
-                   {"phase_current_a", s.phase_current_a}}}};
-  j["field"] = {{"flux_linkage_wb", s.flux_linkage_wb},
-                {"energy_j", s.energy_j},
-                {"coenergy_j", s.coenergy_j},
-                {"b_peak_tesla", s.b_peak_tesla}};
+  j["supply"] = {{"frequency_hz", s.frequency_hz}, {"feed", s.voltage_fed ? "voltage" : "current"}};
+  if (s.time_stepping) {
+    // Over time, not at one instant: the energies are not recorded per step, so they are left
+    // out rather than given as zeros.
+    j["field"] = {{"flux_linkage_wb", s.flux_linkage_wb},
+                  {"flux_linkage_at", "the last step"},
+                  {"b_peak_tesla", s.b_peak_tesla},
+                  {"b_peak_over", "every triangle and retained step"}};
+  } else {
+    j["supply"]["instant"] = {{"time_s", s.time_s},
+                              {"rotor_angle_deg", s.rotor_angle_deg},
+                              {"phase_current_a", s.phase_current_a}};
+    j["field"] = {{"flux_linkage_wb", s.flux_linkage_wb},
+                  {"energy_j", s.energy_j},
+                  {"coenergy_j", s.coenergy_j},
+                  {"b_peak_tesla", s.b_peak_tesla}};
+  }
   j["airgap"] = {{"radius_m", s.airgap_radius_m}};
   j["solver"] = {{"steps", s.steps},
                  {"newton_iterations", s.newton_iterations},
@@ -176,13 +183,15 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                  {"residual_history", s.residual_history},
                  {"step_history", s.step_history}};
   if (!s.failure.empty()) j["solver"]["failure"] = s.failure;
-  if (s.time_stepping)
+  if (s.time_stepping) {
     j["study"] = {{"kind", "time_stepping"},
                   {"dt_s", s.dt_s},
                   {"steps_per_period", s.steps_per_period},
                   {"discarded_steps", s.discarded_steps},
-                  {"mechanical_speed_rpm", s.mechanical_speed_rpm},
-                  {"band_pitches_per_step", s.band_pitches_per_step}};
+                  {"mechanical_speed_rpm", s.mechanical_speed_rpm}};
+    // Only band-aligned steps move the rotor by a whole number of band pitches.
+    if (s.band_pitches_per_step > 0) j["study"]["band_pitches_per_step"] = s.band_pitches_per_step;
+  }
   if (s.voltage_fed)
     j["circuit"] = {
         {"connection", s.connection},
@@ -258,6 +267,8 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
     for (const SaturationZone& z : s.saturation->zones) {
       json row = {{"name", z.name},
                   {"peak_tesla", z.peak_tesla},
+                  {"median_tesla", z.median_tesla},
+                  {"p95_tesla", z.p95_tesla},
                   {"area_fraction_over", z.area_fraction_over},
                   {"threshold_tesla", z.threshold_tesla}};
       if (z.tooth >= 0) {
@@ -272,7 +283,12 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                        {"peak_tesla", s.saturation->peak_tesla_overall},
                        {"regions", zones},
                        {"over", "the last electrical period"},
-                       {"threshold", "the case's, else each iron's knee (0: linear, no knee)"}};
+                       {"threshold",
+                        "the case's, else each iron's deep saturation: where its differential "
+                        "relative permeability falls to 10 (0: linear iron)"},
+                       {"percentiles",
+                        "median and p95 are area-weighted over the zone's triangles; the peak "
+                        "may come from one small triangle at a sharp corner"}};
   }
   if (s.losses_available)
     j["losses"] = {{"iron_w", s.iron_stator_w + s.iron_rotor_w},

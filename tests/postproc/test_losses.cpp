@@ -9,6 +9,7 @@
 #include "geometry/lamination.hpp"
 #include "materials/library.hpp"
 #include "postproc/losses.hpp"
+#include "postproc/saturation.hpp"
 #include "solver/winding_resistance.hpp"
 #include "test_support.hpp"
 
@@ -131,4 +132,29 @@ TEST_CASE("stator phase resistance and copper loss against a hand calculation",
   const WindingResistance e = phase_resistance(d, build_lamination(d), *find_material("copper"));
   CHECK(e.end_winding_estimated);
   CHECK(e.end_winding_length_m > 0.0);
+}
+
+TEST_CASE("saturation: area-weighted percentiles and the deep-saturation threshold",
+          "[postproc][saturation]") {
+  // Percentiles of a weighted sample (the definition: the least value with at least the
+  // fraction q of the weight at or below it; any statistics text).
+  const std::vector<std::pair<double, double>> values = {{2.5, 0.01}, {1.0, 0.5}, {1.8, 0.49}};
+  CHECK(area_percentile(values, 0.5) == 1.0);   // half the area lies at 1.0 T
+  CHECK(area_percentile(values, 0.95) == 1.8);  // one small corner triangle does not set it
+  CHECK(area_percentile(values, 1.0) == 2.5);
+  CHECK(area_percentile({}, 0.5) == 0.0);
+  // The default threshold is where the curve's own differential relative permeability
+  // dB/(μ0·dH) reaches 10, computed here by a central difference of H(B).
+  for (const Material& m : builtin_materials()) {
+    if (!m.curve) continue;
+    const double b = m.curve->deep_saturation_tesla();
+    const double h = 1e-4;
+    const auto mu_r = [&](double at) {
+      return 2.0 * h / (mu0 * (m.curve->h_of_b(at + h) - m.curve->h_of_b(at - h)));
+    };
+    INFO(m.name << ": " << b << " T");
+    CHECK(mu_r(b - 2e-3) > 10.0);
+    CHECK(mu_r(b + 2e-3) < 10.0);
+    CHECK(b > m.curve->knee_tesla());
+  }
 }

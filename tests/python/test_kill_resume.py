@@ -17,7 +17,8 @@ import json
 import numpy as np
 
 gapflux, examples, tmp = sys.argv[1:4]
-os.makedirs(tmp, exist_ok=True)
+shutil.rmtree(tmp, ignore_errors=True)  # each run starts from an empty scratch folder
+os.makedirs(tmp)
 from processes import run_and_kill
 from tally import check, finish
 

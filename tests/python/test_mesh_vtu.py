@@ -5,6 +5,7 @@ Checks: the file reads; cells are quadratic triangles; the cell count and the pe
 triangle counts match what `gapflux mesh` printed; every region_id is in the id -> name map.
 """
 import os
+import shutil
 import re
 import subprocess
 import sys
@@ -13,6 +14,8 @@ import meshio
 import numpy as np
 
 gapflux, examples, tmp = sys.argv[1:4]
+shutil.rmtree(tmp, ignore_errors=True)  # each run starts from an empty scratch folder
+os.makedirs(tmp)
 failures = []
 
 

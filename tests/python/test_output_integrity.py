@@ -27,7 +27,8 @@ import h5py
 import numpy as np
 
 gapflux, examples, tmp = sys.argv[1:4]
-os.makedirs(tmp, exist_ok=True)
+shutil.rmtree(tmp, ignore_errors=True)  # each run starts from an empty scratch folder
+os.makedirs(tmp)
 sys.path.insert(0, os.path.dirname(__file__))
 from small_run import small_case
 from tally import check, finish

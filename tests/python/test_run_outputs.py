@@ -9,6 +9,7 @@ leaves readable files.
 """
 import json
 import os
+import shutil
 import subprocess
 import sys
 
@@ -17,6 +18,8 @@ import meshio
 import numpy as np
 
 gapflux, examples, tmp = sys.argv[1:4]
+shutil.rmtree(tmp, ignore_errors=True)  # each run starts from an empty scratch folder
+os.makedirs(tmp)
 from tally import check, finish
 
 
@@ -61,6 +64,14 @@ for key in ["slots", "poles", "layers", "coil_pitch_slots", "factors"]:
 for key in ["steps", "newton_iterations", "newton_factorizations", "cg_iterations", "wall_s"]:
     check(key in summary["solver"], f"summary.solver.{key} missing")
 check(summary["winding"]["factors"][0]["order"] == 1, "first winding factor is not the fundamental")
+# The residual history ends with the converged value, below the tolerance (default 1e-8).
+history = summary["solver"]["residual_history"]
+check(len(history) == summary["solver"]["newton_iterations"] + 1,
+      f"{len(history)} residuals for {summary['solver']['newton_iterations']} iterations")
+check(history[-1] < 1e-8 <= history[0], f"history does not end converged: {history[-3:]}")
+with h5py.File(os.path.join(out, "results.h5"), "r") as f:
+    check(np.allclose(f["solver/relative_residual"][...], history, rtol=1e-12),
+          "results.h5's residual history differs from summary.json's")
 
 vtu = meshio.read(os.path.join(out, "fields", "step_00000.vtu"))
 cells = sum(len(c.data) for c in vtu.cells)
@@ -70,6 +81,26 @@ for name in ["Bx", "By", "B_abs", "mu_r", "region_id"]:
 check("A" in vtu.point_data, "VTU point field A missing")
 pvd = open(os.path.join(out, "fields.pvd")).read()
 check("fields/step_00000.vtu" in pvd, "fields.pvd does not list the step")
+
+# A time-stepping run's summary: real figures over time, nothing that belongs to one instant.
+ts_text = open(case).read().replace(
+    "[mesh]", "[study]\nkind = \"time_stepping\"\nsteps_per_period = 24\nperiods = 0.25\n"
+    "motion = \"slip\"\nslip = 0.05\n\n[output]\nfields_every = 100\n\n[mesh]")
+ts_case = os.path.join(tmp, "stepping.toml")
+open(ts_case, "w").write(ts_text)
+ts_out = os.path.join(tmp, "run_stepping")
+run = subprocess.run([gapflux, "run", ts_case, "--out", ts_out], capture_output=True, text=True)
+check(run.returncode == 0, f"time-stepping run failed: {run.stderr[-300:]}")
+ts = json.load(open(os.path.join(ts_out, "summary.json")))
+with h5py.File(os.path.join(ts_out, "results.h5"), "r") as f:
+    b = f["steps/B"][...].reshape(f["steps/B"].shape[0], -1, 2)
+    peak = np.hypot(b[..., 0], b[..., 1]).max()
+    psi_last = f["steps/flux_linkage"][-1]
+check(abs(ts["field"]["b_peak_tesla"] - peak) <= 1e-12 * peak, f"b_peak {ts['field']['b_peak_tesla']} vs {peak}")
+check(np.allclose(ts["field"]["flux_linkage_wb"], psi_last, rtol=1e-12), "flux linkage of the last step")
+check("energy_j" not in ts["field"] and "coenergy_j" not in ts["field"], "energies reported as zeros")
+check("instant" not in ts["supply"], "a one-instant supply block in a time-stepping summary")
+check(ts["study"].get("band_pitches_per_step", 1) > 0, "band_pitches_per_step = -1 reported")
 
 # A run cut short by its iteration limit: exit code 3, files written, marked unconverged.
 text = open(case).read().replace("[mesh]", "[solver]\nmax_iterations = 1\n\n[mesh]")

@@ -34,7 +34,8 @@ import meshio
 import numpy as np
 
 gapflux, examples, tmp = sys.argv[1:4]
-os.makedirs(tmp, exist_ok=True)
+shutil.rmtree(tmp, ignore_errors=True)  # each run starts from an empty scratch folder
+os.makedirs(tmp)
 from reference_case import COARSE_MESH, LINEAR_IRON, locked_study, reference_without_supply
 from tally import check, finish
 
@@ -72,8 +73,16 @@ miss = np.degrees(abs(np.angle(np.exp(2j * (mean_angle - axis_a))) / 2))
 check(miss < 15.0, f"the teeth rise most {miss:.1f}° el away from phase a's axis")
 print(f"raised phase a: teeth rise most at {np.degrees(mean_angle) % 180:.1f}° el, "
       f"phase a axis {np.degrees(axis_a) % 180:.1f}° el (off by {miss:.1f}°)")
-check(balanced["saturation"]["peak_tesla"] > balanced["saturation"]["threshold_tesla"] > 0,
-      "the steel case does not pass its knee")
+# The case must reach the steel's nonlinear range for the check above to mean anything: past
+# the built-in grades' knee (1.20–1.22 T, where the differential permeability has fallen to a
+# tenth of its largest). The default threshold is deep saturation (differential μr 10: 1.78–1.83
+# T for the built-in grades), and the zones report area-weighted percentiles beside the peak.
+check(balanced["saturation"]["peak_tesla"] > 1.25, "the steel case does not pass its knee")
+check(1.7 < balanced["saturation"]["threshold_tesla"] < 1.9,
+      f"default threshold {balanced['saturation']['threshold_tesla']} T is not deep saturation")
+for zone in balanced["saturation"]["regions"]:
+    check(zone["median_tesla"] <= zone["p95_tesla"] <= zone["peak_tesla"],
+          f"{zone['name']}: median, p95 and peak out of order")
 
 with h5py.File(os.path.join(balanced_dir, "results.h5"), "r") as f:
     peak = f["saturation/peak_B"][...]

@@ -37,7 +37,8 @@ import h5py
 import numpy as np
 
 gapflux, examples, tmp = sys.argv[1:4]
-os.makedirs(tmp, exist_ok=True)
+shutil.rmtree(tmp, ignore_errors=True)  # each run starts from an empty scratch folder
+os.makedirs(tmp)
 from reference_case import COARSE_MESH, LINEAR_IRON, locked_study, reference_without_supply
 from tally import check, finish
 

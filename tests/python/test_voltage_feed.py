@@ -54,7 +54,8 @@ import h5py
 import numpy as np
 
 gapflux, examples, tmp = sys.argv[1:4]
-os.makedirs(tmp, exist_ok=True)
+shutil.rmtree(tmp, ignore_errors=True)  # each run starts from an empty scratch folder
+os.makedirs(tmp)
 from processes import run_and_kill
 from reference_case import COARSE_MESH, LINEAR_IRON, reference_without_supply
 from tally import check, finish
@@ -149,7 +150,7 @@ check(abs(compared["losses"]["total_w"]["change"]) < 1e-9 * compared["losses"]["
       f"a balanced voltage feed differs from its baseline: {compared['losses']['total_w']}")
 z, p1, n1 = sequences(phasors(f["steps/phase_current"], 36))
 check(abs(n1) < 1e-3 * abs(p1), f"balanced voltages: negative/positive current {abs(n1 / p1):.2e}")
-check(s["saturation"]["peak_tesla"] > s["saturation"]["threshold_tesla"],
+check(s["saturation"]["peak_tesla"] > 1.25,  # the built-in grades' knee: 1.20–1.22 T
       "the balanced case does not reach the knee")
 # The saturated start (secant of the linear winding) leaves only a small DC flux.
 check(s["steady_state"]["period_dc_pct"][0] < 1.0,

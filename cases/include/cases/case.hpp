@@ -215,7 +215,7 @@ struct SolverSpec {
 struct OutputSpec {
   int fields_every = 1;
   int airgap_samples = 0;                 // 0 until resolved: from the band nodes
-  double saturation_threshold_tesla = 0;  // 0: each iron's knee
+  double saturation_threshold_tesla = 0;  // 0: each iron's deep saturation (differential μr 10)
 };
 
 struct Case {

@@ -29,6 +29,14 @@ class BHCurve {
   // The knee: where the differential permeability has fallen below 10 % of its largest value
   // (a common engineering reading, no source).
   double knee_tesla() const;
+  // Where the differential relative permeability dB/(μ0·dH) first falls to `mu_r` (above the
+  // steepest part of the curve); the last table point if it never does.
+  double b_at_differential_mu_r(double mu_r) const;
+  // Deep saturation, the default saturation threshold: differential μr down to 10, where each
+  // further tesla costs a tenth of what air would. 1.78–1.83 T for the built-in grades, about
+  // the flux density usual as the ceiling for induction-motor teeth (common practice, no
+  // source). The knee (1.2 T for the same grades) lies inside every healthy tooth's range.
+  double deep_saturation_tesla() const { return b_at_differential_mu_r(10.0); }
   const std::vector<double>& h_table() const { return h_; }
   const std::vector<double>& b_table() const { return b_; }
 

@@ -5,6 +5,7 @@
 // axis is nearest), the rotor teeth, the rotor bridges and tips above the bars, the rotor yoke —
 // with their peak |B| and the area fraction above the threshold.
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "geometry/lamination.hpp"
@@ -18,9 +19,11 @@ struct SaturationZone {
   double angle_deg = 0.0;     // stator zones: mechanical angle of the tooth centre
   std::string nearest_phase;  // stator zones: "a", "b" or "c"
   double area_m2 = 0.0;       // in the model (sector)
-  double peak_tesla = 0.0;
+  double peak_tesla = 0.0;    // of the zone's triangles' peaks (one triangle may set it)
+  double median_tesla = 0.0;  // area-weighted median of the triangles' peaks
+  double p95_tesla = 0.0;     // area-weighted 95th percentile: 5 % of the area lies above
   double area_fraction_over = 0.0;
-  double threshold_tesla = 0.0;  // 0 when the zone's material is linear (no knee)
+  double threshold_tesla = 0.0;  // 0 when the zone's material is linear
 };
 
 struct SaturationMap {
@@ -30,6 +33,9 @@ struct SaturationMap {
   std::vector<SaturationZone> zones;
   double peak_tesla_overall = 0.0;
 };
+
+// The value below which the fraction q of the total area lies ((value, area) pairs).
+double area_percentile(std::vector<std::pair<double, double>> value_area, double q);
 
 // `b_abs_rows`: |B| per mesh triangle for each step of one electrical period (steps × triangles,
 // row-major) at step `dt_s`; `threshold_tesla`: per triangle, 0 where the material is linear.

@@ -55,6 +55,15 @@ struct NewtonReport {
   std::vector<NewtonIteration> history;
   bool analysed = false;  // a new symbolic analysis was made
   double analyse_s = 0.0;
+
+  // The relative residual at the start of each iteration and, when converged, the converged
+  // value that ended it (a failed solve's history already ends with its last iterate).
+  std::vector<double> residuals() const {
+    std::vector<double> out;
+    for (const NewtonIteration& it : history) out.push_back(it.relative_residual);
+    if (converged) out.push_back(relative_residual);
+    return out;
+  }
 };
 
 // Numerical failure: the report and a diagnostic travel with it; the caller saves what exists.
