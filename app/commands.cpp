@@ -53,6 +53,7 @@ Prepared prepare(const std::string& case_path) {
 int command_check(const std::string& case_path, const CommonOptions&) {
   const Prepared p = prepare(case_path);
   print_resolved_case(std::cout, p.c, p.lamination, p.mesh_settings);
+  for (const std::string& w : p.c.warnings) fmt::print("warning: {}\n", w);
   for (const std::string& w : p.mesh_settings.forecast.warnings) fmt::print("warning: {}\n", w);
   if (p.c.study.kind == StudyKind::time_stepping)
     fmt::print(

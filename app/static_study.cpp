@@ -68,6 +68,7 @@ void StaticStudy::set_up() {
   materials_ = resolve_region_materials(case_);
   lamination_ = build_lamination(case_);
   mesh_settings_ = resolve_mesh_settings(case_, lamination_);
+  for (const std::string& w : case_.warnings) fmt::print(stderr, "warning: {}\n", w);
   for (const std::string& w : mesh_settings_.forecast.warnings)
     fmt::print(stderr, "warning: {}\n", w);
   check_supply_at_instant(case_, case_.study.time_s);

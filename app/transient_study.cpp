@@ -110,6 +110,7 @@ void TransientStudy::set_up() {
   materials_ = resolve_region_materials(case_);
   lamination_ = build_lamination(case_);
   const MeshSettings mesh_settings = resolve_mesh_settings(case_, lamination_);
+  for (const std::string& w : case_.warnings) fmt::print(stderr, "warning: {}\n", w);
   for (const std::string& w : mesh_settings.forecast.warnings)
     fmt::print(stderr, "warning: {}\n", w);
   // The case is valid: only now may the folder be locked (and, with --replace, cleared).

@@ -385,6 +385,7 @@ Case read_case_text(std::string_view text, const std::string& file_name) {
   c.solver = parse_solver(root.table("solver"));
   c.output = parse_output(root.table("output"));
   root.finish();
+  close_isolated_star(c, c.warnings);
   return c;
 }
 

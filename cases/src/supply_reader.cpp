@@ -7,6 +7,8 @@
 #include <cmath>
 #include <complex>
 #include <filesystem>
+#include <map>
+#include <numbers>
 
 #include "value_checks.hpp"
 
@@ -161,8 +163,10 @@ void close_line_triangle(TableReader& t, std::optional<TableReader>& phases, con
 // Feed, connection and voltage basis; the keys that do not apply to the feed are refused.
 void parse_feed(TableReader& t, SupplySpec& s) {
   s.feed = static_cast<Feed>(choice(t, "feed", {"current", "voltage"}, std::size_t{0}));
+  s.connection = static_cast<Connection>(
+      choice(t, "connection", {"star", "star_neutral", "delta"}, std::size_t{0}));
   if (!s.voltage_fed()) {
-    for (const char* key : {"connection", "voltages", "rms_v"})
+    for (const char* key : {"voltages", "rms_v"})
       if (t.has(key))
         throw t.error(key,
                       "applies to feed = \"voltage\" only (a current feed imposes the "
@@ -171,8 +175,6 @@ void parse_feed(TableReader& t, SupplySpec& s) {
   }
   if (t.has("rms_a"))
     throw t.error("rms_a", "a voltage feed takes rms_v (the currents follow from the field)");
-  s.connection = static_cast<Connection>(
-      choice(t, "connection", {"star", "star_neutral", "delta"}, std::size_t{0}));
   s.voltage_basis = static_cast<VoltageBasis>(
       choice(t, "voltages", {"phase", "line_to_line"},
              s.connection == Connection::star_neutral ? std::size_t{0} : std::size_t{1}));
@@ -271,6 +273,85 @@ SupplySpec parse_supply(TableReader t, const std::string& case_file) {
   t.know("waveform");
   t.finish();
   return s;
+}
+
+void close_isolated_star(Case& c, std::vector<std::string>& warnings) {
+  SupplySpec& s = c.supply;
+  if (s.voltage_fed() || s.connection != Connection::star) return;
+  // Zero sequence (Fortescue: a third of the three phasors' sum), removed from every phase as
+  // the isolated star point removes it; reported against the fundamental's positive sequence.
+  double removed = 0.0, removed_order = 1.0, reference = 0.0;
+  std::string key = "supply.phases";
+  const auto note = [&](double zero, double order, const std::string& at) {
+    if (zero > removed) removed = zero, removed_order = order, key = at;
+  };
+  if (s.form == SupplyForm::waveform) {
+    double sum2 = 0.0, phase2 = 0.0;
+    auto& v = s.waveform.values;
+    for (std::size_t i = 0; i < s.waveform.time_s.size(); ++i) {
+      const double z = (v[0][i] + v[1][i] + v[2][i]) / 3.0;
+      sum2 += z * z;
+      phase2 += (v[0][i] * v[0][i] + v[1][i] * v[1][i] + v[2][i] * v[2][i]) / 3.0;
+      for (int k = 0; k < 3; ++k) v[k][i] -= z;
+    }
+    reference = std::sqrt(phase2);
+    note(std::sqrt(sum2), 0.0, "supply.waveform.file");
+  } else {
+    const cplx alpha = std::polar(1.0, 2.0 * std::numbers::pi / 3.0);
+    std::array<cplx, 3> x;
+    cplx positive{0.0, 0.0}, zero{0.0, 0.0};
+    for (int k = 0; k < 3; ++k) {
+      x[k] = std::polar(s.phases[k].rms, s.phases[k].angle_rad);
+      zero += x[k] / 3.0;
+      positive += x[k] * std::pow(alpha, k) / 3.0;
+    }
+    reference = std::abs(positive);
+    note(std::abs(zero), 1.0, s.form == SupplyForm::sequence ? "supply.sequence" : "supply.phases");
+    if (std::abs(zero) > 1e-12 * reference)  // a closed set keeps its angles as given
+      for (int k = 0; k < 3; ++k) {
+        const cplx closed = x[k] - zero;
+        s.phases[k] = {std::abs(closed), std::abs(closed) > 0 ? std::arg(closed) : 0.0};
+      }
+    // Per order: each phase's component of that order (one at most per phase) loses the zero
+    // sequence; a phase with none gets one of its own.
+    std::map<double, std::array<cplx, 3>> by_order;
+    std::map<double, std::string> key_of;
+    for (const SupplyComponent& h : s.harmonics) {
+      for (int k = 0; k < 3; ++k) by_order[h.order][k] += std::polar(h.rms[k], h.angle_rad[k]);
+      key_of[h.order] = h.key_path;
+    }
+    for (const auto& [order, phasors] : by_order) {
+      const cplx z = (phasors[0] + phasors[1] + phasors[2]) / 3.0;
+      if (std::abs(z) <= 1e-12 * reference) continue;
+      note(std::abs(z), order, key_of[order]);
+      for (int k = 0; k < 3; ++k) {
+        SupplyComponent* own = nullptr;
+        for (SupplyComponent& h : s.harmonics)
+          if (h.order == order && h.rms[k] > 0) own = &h;
+        if (!own) {
+          SupplyComponent added;
+          added.order = order;
+          added.key_path = key_of[order];
+          s.harmonics.push_back(added);
+          own = &s.harmonics.back();
+        }
+        const cplx closed = std::polar(own->rms[k], own->angle_rad[k]) - z;
+        own->rms[k] = std::abs(closed);
+        own->angle_rad[k] = std::arg(closed);
+      }
+    }
+  }
+  if (reference <= 0.0 || removed <= 1e-3 * reference) return;  // rounding of given values
+  warnings.push_back(fmt::format(
+      "{}: the described currents carry {:.3g} A of zero sequence{} ({:.2f} % of the "
+      "fundamental's positive sequence), which an isolated star (connection = \"star\", the "
+      "default) cannot carry: its three currents always sum to zero. It is removed from every "
+      "phase (Kirchhoff); give supply.connection = \"star_neutral\" or \"delta\" if the winding "
+      "does carry it",
+      key, removed,
+      s.form == SupplyForm::waveform ? " (RMS of the three-phase sum)"
+                                     : fmt::format(" at order {:g}", removed_order),
+      100.0 * removed / reference));
 }
 
 }  // namespace gapflux

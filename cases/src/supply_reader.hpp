@@ -12,6 +12,11 @@ namespace gapflux {
 // `case_file` locates a waveform table given by a relative path.
 SupplySpec parse_supply(TableReader t, const std::string& case_file);
 
+// A current feed into an isolated star (the default connection) cannot carry zero sequence: it
+// is removed from the described currents (fundamental, each harmonic order, or each sample of a
+// measured table), with a warning when it exceeds 0.1 % of the fundamental's positive sequence.
+void close_isolated_star(Case& c, std::vector<std::string>& warnings);
+
 // Reads a CSV of time_s and three phase values (header line and '#' comments allowed); errors name
 // the CSV's own line. `key_path` is the case key that named the file.
 WaveformTable read_waveform_csv(const std::string& path, const std::string& key_path);

@@ -5,6 +5,7 @@
 
 #include <cmath>
 #include <complex>
+#include <map>
 #include <numbers>
 
 #include "cases/case_reader.hpp"
@@ -56,8 +57,12 @@ TEST_CASE("source positions point at the key's line", "[cases]") {
 }
 
 TEST_CASE("per-phase supply overrides keep the other phases balanced", "[cases]") {
-  const std::string text = test::read_text(test::example("pump_4p36s.toml")) +
-                           "\n[supply.phases]\nb = { rms_a = 23.1 }\nc = { angle_deg = -235.0 }\n";
+  std::string text = test::read_text(test::example("pump_4p36s.toml")) +
+                     "\n[supply.phases]\nb = { rms_a = 23.1 }\nc = { angle_deg = -235.0 }\n";
+  // (The demo's [supply] table comes last; the set carries zero sequence, which the default
+  // isolated star would remove: this test reads the description itself, with the neutral.)
+  text.replace(text.find("feed = \"current\""), 16,
+               "feed = \"current\"\nconnection = \"star_neutral\"");
   const Case c = read_case_text(text, "inline.toml");
   CHECK(c.supply.phases[0].rms == Approx(6.5));
   CHECK(c.supply.phases[1].rms == Approx(23.1));
@@ -93,7 +98,8 @@ std::complex<double> phasor(const PhaseSpec& p) {
 // c = αX1 + α²X2 + X0, with α = e^{j120°}; written out by hand below.
 TEST_CASE("a supply given by sequences resolves to the phases Fortescue's inverse gives",
           "[cases][supply]") {
-  const Case c = read_case_text(with_supply("[supply]\n[supply.sequence]\n"
+  const Case c = read_case_text(with_supply("[supply]\nconnection = \"star_neutral\"\n"
+                                            "[supply.sequence]\n"
                                             "positive = { rms_a = 10.0, angle_deg = 0.0 }\n"
                                             "negative = { rms_a = 1.0, angle_deg = 30.0 }\n"
                                             "zero = { rms_a = 0.5, angle_deg = -45.0 }\n"),
@@ -110,7 +116,8 @@ TEST_CASE("a supply given by sequences resolves to the phases Fortescue's invers
 TEST_CASE("harmonics follow each phase's timing, so their sequence comes from the angles",
           "[cases][supply]") {
   const Case c = read_case_text(
-      with_supply("[supply]\nrms_a = 10.0\n[supply.phases]\nb = { rms_a = 8.0 }\n"
+      with_supply("[supply]\nrms_a = 10.0\nconnection = \"star_neutral\"\n"
+                  "[supply.phases]\nb = { rms_a = 8.0 }\n"
                   "[[supply.harmonics]]\norder = 5\npercent = 4.0\nangle_deg = 10.0\n"
                   "[[supply.harmonics]]\norder = 2.5\nrms_a = 0.2\nphase = \"c\"\n"),
       "inline.toml");
@@ -129,6 +136,49 @@ TEST_CASE("harmonics follow each phase's timing, so their sequence comes from th
   // The currents the solver sees: i_a(0) = √2·(10 + 0.4·cos 10°).
   const auto i = supply_phase_currents_a(c.supply, 0.0);
   CHECK(i[0] == Approx(std::sqrt(2.0) * (10.0 + 0.4 * std::cos(10 * deg))).epsilon(1e-12));
+}
+
+TEST_CASE("a current feed into an isolated star loses its zero sequence, with a warning",
+          "[cases][supply]") {
+  // Kirchhoff's current law at an isolated star point: i_a + i_b + i_c = 0 at every instant,
+  // so each order's phasors sum to zero; what the description held beyond that is its zero
+  // sequence (Fortescue 1918), removed from each phase alike.
+  const auto supply = [](const std::string& connection) {
+    return "[supply]\nrms_a = 10.0\n" + connection +
+           "[supply.phases]\nb = { rms_a = 8.0 }\n"
+           "[[supply.harmonics]]\norder = 5\npercent = 4.0\n"
+           "[[supply.harmonics]]\norder = 7\nrms_a = 0.3\nphase = \"a\"\n";
+  };
+  const Case star = read_case_text(with_supply(supply("")), "star.toml");
+  const Case neutral =
+      read_case_text(with_supply(supply("connection = \"star_neutral\"\n")), "neutral.toml");
+  std::complex<double> sum{0, 0}, zero{0, 0};
+  for (int k = 0; k < 3; ++k) {
+    sum += phasor(star.supply.phases[k]);
+    zero += phasor(neutral.supply.phases[k]) / 3.0;
+  }
+  CHECK(std::abs(sum) < 1e-12);
+  // The zero sequence was 1/3·|10 + 8·α² + 10·α| = 2/3 A, 6.7 % of the positive sequence.
+  CHECK(std::abs(zero) == Approx(2.0 / 3.0).epsilon(1e-12));
+  for (int k = 0; k < 3; ++k)
+    CHECK(std::abs(phasor(star.supply.phases[k]) - (phasor(neutral.supply.phases[k]) - zero)) <
+          1e-12);
+  // Each harmonic order sums to zero over the phases too; the 7th, given on phase a alone,
+  // now flows in b and c as well (−0.1 A each, a 0.2 A).
+  std::map<double, std::complex<double>> by_order;
+  for (const SupplyComponent& h : star.supply.harmonics)
+    for (int k = 0; k < 3; ++k) by_order[h.order] += std::polar(h.rms[k], h.angle_rad[k]);
+  REQUIRE(by_order.size() == 2);
+  for (const auto& [order, total] : by_order) CHECK(std::abs(total) < 1e-12);
+  // The instantaneous currents the solver sees sum to zero as well.
+  for (double t : {0.0, 0.0013, 0.0071}) {
+    const auto i = supply_phase_currents_a(star.supply, t);
+    CHECK(std::abs(i[0] + i[1] + i[2]) < 1e-12);
+  }
+  REQUIRE(star.warnings.size() == 1);
+  CHECK_THAT(star.warnings[0], Catch::Contains("supply.phases: the described currents carry "
+                                               "0.667 A of zero sequence at order 1"));
+  CHECK(neutral.warnings.empty());
 }
 
 TEST_CASE("a voltage feed: connection, basis, line-to-line defaults and resistance keys",

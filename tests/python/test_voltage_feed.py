@@ -126,7 +126,8 @@ f, s = run("zero_neutral", zero_supply.format("star_neutral"), 72, iron=LINEAR_I
 i0_neutral = abs(sequences(phasors(f["steps/phase_current"], 72))[0])
 check(i_isolated < 1e-9 * i0_neutral,
       f"an isolated star carries {i_isolated:.3e} A under a zero-sequence voltage")
-f, s = run("zero_current_fed", "[supply]\n[supply.sequence]\npositive = { rms_a = 0.0 }\n"
+f, s = run("zero_current_fed", "[supply]\nconnection = \"star_neutral\"\n[supply.sequence]\n"
+           "positive = { rms_a = 0.0 }\n"
            "zero = { rms_a = 1.0 }\n", 72, iron=LINEAR_IRON)
 psi0 = sequences(phasors(f["steps/flux_linkage"], 72))[0]
 l0 = abs(psi0) / 1.0

@@ -151,7 +151,9 @@ struct WaveformTable {
 
 struct SupplySpec {
   Feed feed = Feed::current;
-  Connection connection = Connection::star;          // voltage feed
+  // The winding's connection. A current feed imposes the winding (branch) currents: into an
+  // isolated star they must hold no zero sequence; a delta circulates it.
+  Connection connection = Connection::star;
   VoltageBasis voltage_basis = VoltageBasis::phase;  // voltage feed
   double frequency_hz = 50.0;
   bool frequency_detected = false;  // true: taken from the waveform table, not the case
@@ -232,6 +234,7 @@ struct Case {
   SolverSpec solver;
   OutputSpec output;
   SourceMap sources;
+  std::vector<std::string> warnings;  // about valid but doubtful input; shown by check and run
 };
 
 const char* to_string(SlotShape);
