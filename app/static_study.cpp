@@ -10,7 +10,9 @@
 #include <numbers>
 
 #include "cases/case_reader.hpp"
+#include "postproc/ensight_writer.hpp"
 #include "postproc/field_evaluation.hpp"
+#include "postproc/field_snapshot.hpp"
 #include "postproc/output_file.hpp"
 #include "postproc/result_sets.hpp"
 #include "postproc/results_file.hpp"
@@ -152,17 +154,10 @@ void StaticStudy::write_output(const std::string& failure) {
 
   // fields.pvd + fields/step_00000.vtu
   {
-    FieldSnapshot snap;
-    snap.elements = &assembler.elements();
-    for (std::size_t e = 0; e < snap.elements->size(); ++e) {
-      snap.corner_values.push_back(assembler.local_values(e, x));
-      snap.region_id.push_back(mesh_.regions[(*snap.elements)[e].region].id);
-    }
-    snap.b_tesla = fields.b_tesla;
-    snap.b_abs_tesla = fields.b_abs_tesla;
-    snap.mu_r = fields.mu_r_differential;
-    write_fields_vtu((fs::path(out_dir_) / "fields" / "step_00000.vtu").string(), mesh_.order,
-                     snap);
+    const FieldSnapshot snap = make_field_snapshot(assembler, x, mesh_, fields);
+    write_fields_vtu((fs::path(out_dir_) / "fields" / "step_00000.vtu").string(), snap);
+    write_ensight_step(out_dir_, 0, snap);
+    write_ensight_case(out_dir_, {{case_.study.time_s, 0}});
     write_pvd((fs::path(out_dir_) / "fields.pvd").string(),
               {{case_.study.time_s, "fields/step_00000.vtu"}});
   }
@@ -203,7 +198,8 @@ void StaticStudy::write_output(const std::string& failure) {
       phase_current_a_[0], phase_current_a_[1], phase_current_a_[2], psi[0], psi[1], psi[2]);
   fmt::print("peak |B| {:.3f} T; stored energy {:.3f} J, co-energy {:.3f} J\n", s.b_peak_tesla,
              s.energy_j, s.coenergy_j);
-  fmt::print("wrote {}/results.h5, fields.pvd, summary.json\n", out_dir_);
+  fmt::print("wrote {}/results.h5, summary.json, fields.pvd and fields.case (snapshot)\n",
+             out_dir_);
 }
 
 }  // namespace gapflux

@@ -80,8 +80,7 @@ int TransientStudy::resume_results(const std::string& path) {
     }
   }
   for (int n = 0; n < done; ++n)
-    if (n % case_.output.fields_every == 0)
-      field_files_.emplace_back(grid_.time(n), fmt::format("fields/step_{:05d}.vtu", n));
+    if (n % case_.output.fields_every == 0) snapshot_steps_.emplace_back(grid_.time(n), n);
   fmt::print(stderr, "resuming at step {} of {}\n", done + 1, grid_.steps);
   return static_cast<int>(done);
 }
@@ -111,7 +110,8 @@ std::uint64_t TransientStudy::estimated_snapshot_bytes() const {
   // A snapshot repeats each corner (coordinates, A, connectivity: 40 bytes) and keeps five
   // values per triangle, base64-encoded (4/3).
   const std::uint64_t per = mesh_.nodes_per_triangle();
-  return mesh_.n_triangles() * (per * 40 + 48) * 4 / 3 + 64 * 1024;
+  // The EnSight copy adds about half of that.
+  return mesh_.n_triangles() * (per * 40 + 48) * 2 + 64 * 1024;
 }
 
 void TransientStudy::ensure_room_for_step(int n) const {
@@ -141,8 +141,10 @@ void TransientStudy::measure_step_bytes(std::uint64_t file_bytes_before, bool sn
   const std::uint64_t after = fs::file_size(folder_->path("results.h5"), ec);
   if (!ec && after > file_bytes_before)
     step_bytes_ = std::max(step_bytes_, after - file_bytes_before);
-  if (snapshot && !field_files_.empty()) {
-    const std::uint64_t size = fs::file_size(folder_->path(field_files_.back().second), ec);
+  if (snapshot && !snapshot_steps_.empty()) {
+    // The .vtu and the EnSight files of a snapshot are about the same size.
+    const std::uint64_t size =
+        2 * fs::file_size(folder_->path(snapshot_file(snapshot_steps_.back().second)), ec);
     if (!ec) snapshot_bytes_ = std::max(snapshot_bytes_, size);
   }
 }

@@ -16,7 +16,9 @@
 #include <numbers>
 
 #include "cases/case_reader.hpp"
+#include "postproc/ensight_writer.hpp"
 #include "postproc/field_evaluation.hpp"
+#include "postproc/field_snapshot.hpp"
 #include "postproc/output_file.hpp"
 #include "postproc/result_sets.hpp"
 #include "postproc/run_analysis.hpp"
@@ -289,19 +291,18 @@ void TransientStudy::step(int n) {
 
 void TransientStudy::write_fields(int n, const MagnetostaticSystem& system,
                                   const ElementFields& fields) {
-  FieldSnapshot snap;
-  snap.elements = &system.assembler().elements();
-  for (std::size_t e = 0; e < snap.elements->size(); ++e) {
-    snap.corner_values.push_back(system.assembler().local_values(e, system.x()));
-    snap.region_id.push_back(mesh_.regions[(*snap.elements)[e].region].id);
-  }
-  snap.b_tesla = fields.b_tesla;
-  snap.b_abs_tesla = fields.b_abs_tesla;
-  snap.mu_r = fields.mu_r_differential;
-  const std::string name = fmt::format("fields/step_{:05d}.vtu", n);
-  write_fields_vtu((fs::path(out_dir_) / name).string(), mesh_.order, snap);
-  field_files_.emplace_back(grid_.time(n), name);
-  write_pvd((fs::path(out_dir_) / "fields.pvd").string(), field_files_);
+  const FieldSnapshot snap = make_field_snapshot(system.assembler(), system.x(), mesh_, fields);
+  write_fields_vtu(folder_->path(snapshot_file(n)), snap);
+  write_ensight_step(out_dir_, n, snap);
+  snapshot_steps_.emplace_back(grid_.time(n), n);
+  std::vector<std::pair<double, std::string>> files;
+  for (const auto& [time, step] : snapshot_steps_) files.emplace_back(time, snapshot_file(step));
+  write_pvd(folder_->path("fields.pvd"), files);
+  write_ensight_case(out_dir_, snapshot_steps_);
+}
+
+std::string snapshot_file(int step) {
+  return fmt::format("fields/step_{:05d}.vtu", step);
 }
 
 std::string TransientStudy::summary_path() const {
@@ -423,7 +424,8 @@ void TransientStudy::finish(const std::string& failure) {
         "{:.1f} W (R = {:.4f} Ω per phase at {:g} °C)\n",
         s.iron_stator_w, s.iron_rotor_w, s.copper_w, s.phase_resistance_ohm,
         s.conductor_temperature_c);
-  fmt::print("wrote {}/results.h5, fields.pvd, summary.json\n", out_dir_);
+  fmt::print("wrote {}/results.h5, summary.json, fields.pvd and fields.case (snapshots)\n",
+             out_dir_);
 }
 
 }  // namespace gapflux

@@ -28,6 +28,9 @@
 
 namespace gapflux {
 
+// fields/step_NNNNN.vtu, relative to the run folder.
+std::string snapshot_file(int step);
+
 class TransientStudy {
  public:
   // `use`: what to do with a folder that holds an earlier run (RunFolder).
@@ -98,7 +101,7 @@ class TransientStudy {
   int factorizations_last_ = 0;
   int steps_done_ = 0;
   double wall_start_s_ = 0.0;
-  std::vector<std::pair<double, std::string>> field_files_;
+  std::vector<std::pair<double, int>> snapshot_steps_;  // (time, step) of each field snapshot
   // Bytes the last step added to results.h5 and the last snapshot's size (the disk-room guard).
   std::uint64_t step_bytes_ = 0, snapshot_bytes_ = 0;
 };

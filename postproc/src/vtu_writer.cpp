@@ -110,21 +110,20 @@ void write_mesh_vtu(const std::string& path, const Mesh& mesh, const BandMesh* b
 
 namespace gapflux {
 
-void write_fields_vtu(const std::string& path, int order, const FieldSnapshot& s) {
-  const int per = order == 1 ? 3 : 6;
-  const int cell_type = order == 1 ? VTK_TRIANGLE : VTK_QUADRATIC_TRIANGLE;
+void write_fields_vtu(const std::string& path, const FieldSnapshot& s) {
+  const int per = s.order == 1 ? 3 : 6;
+  const int cell_type = s.order == 1 ? VTK_TRIANGLE : VTK_QUADRATIC_TRIANGLE;
   vtkNew<vtkPoints> points;
   points->SetDataTypeToDouble();
   vtkNew<vtkDoubleArray> a;
   a->SetName("A");
   vtkNew<vtkUnstructuredGrid> grid;
-  const auto& elements = *s.elements;
-  grid->Allocate(static_cast<vtkIdType>(elements.size()));
+  grid->Allocate(static_cast<vtkIdType>(s.nodes.size()));
   // Corners get points of their own: band and mesh triangles alike, no shared-node bookkeeping.
-  for (std::size_t e = 0; e < elements.size(); ++e) {
+  for (std::size_t e = 0; e < s.nodes.size(); ++e) {
     vtkIdType ids[6];
     for (int i = 0; i < per; ++i) {
-      const Vec2& p = elements[e].nodes.x[i];
+      const Vec2& p = s.nodes[e].x[i];
       ids[i] = points->InsertNextPoint(p.x(), p.y(), 0.0);
       a->InsertNextValue(s.corner_values[e][i]);
     }
@@ -151,6 +150,10 @@ void write_fields_vtu(const std::string& path, int order, const FieldSnapshot& s
   region->SetName("region_id");
   for (int r : s.region_id) region->InsertNextValue(r);
   grid->GetCellData()->AddArray(region);
+  vtkNew<vtkIntArray> side;
+  side->SetName("side");
+  for (int v : s.side) side->InsertNextValue(v);
+  grid->GetCellData()->AddArray(side);
   write_grid(path, grid);
 }
 

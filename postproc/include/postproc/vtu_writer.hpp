@@ -25,17 +25,19 @@ void write_mesh_vtu(
 
 namespace gapflux {
 
-// One field snapshot: the mesh and band triangles of the assembler (rotor side at its angle),
-// A at every corner as point data "A" (Wb/m), and per cell "Bx", "By", "B_abs" (T), "mu_r"
-// (differential relative permeability), "region_id".
+// One field snapshot as drawn: per element its nodes' drawn positions, A at every node as point
+// data "A" (Wb/m), and per cell "Bx", "By", "B_abs" (T), "mu_r" (differential relative
+// permeability), "region_id", "side" (0 stator, 1 rotor, 2 band). Built by make_field_snapshot
+// (field_snapshot.hpp).
 struct FieldSnapshot {
-  const std::vector<ElementRecord>* elements = nullptr;
+  int order = 2;
+  std::vector<ElementNodes> nodes;
   std::vector<LocalVector> corner_values;  // A at each element's nodes
   std::vector<Vec2> b_tesla;
   std::vector<double> b_abs_tesla, mu_r;
-  std::vector<int> region_id;
+  std::vector<int> region_id, side;
 };
-void write_fields_vtu(const std::string& path, int order, const FieldSnapshot& snapshot);
+void write_fields_vtu(const std::string& path, const FieldSnapshot& snapshot);
 
 // A ParaView-style collection file listing (time, file) pairs; files relative to the .pvd.
 void write_pvd(const std::string& path, const std::vector<std::pair<double, std::string>>& files);
