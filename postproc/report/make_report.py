@@ -1,6 +1,8 @@
-"""DIR/report.html from a time-stepping run's results.h5 and summary.json: a self-contained page
-(images embedded) readable without gapflux. Plots are drawn by matplotlib (Debian's
-python3-matplotlib), the results read with h5py.
+"""DIR/report.html from a run's results.h5 and summary.json: a self-contained page (images
+embedded) readable without gapflux. A time-stepping run gets its waves, locus, torque, saturation
+and losses; a static run its field map, airgap field with its space spectrum, and the iron's
+saturation at that instant. Plots are drawn by matplotlib (Debian's python3-matplotlib), the
+results read with h5py.
 
 Usage: make_report.py DIR
 """
@@ -86,27 +88,137 @@ def voltage_section(s, f):
             "<div class='caution'>" + html.escape(c["model"]) + "</div>")
 
 
-def main(out):
-    s = json.load(open(os.path.join(out, "summary.json")))
-    f = h5py.File(os.path.join(out, "results.h5"), "r")
+STATIC_THRESHOLDS_T = (1.5, 1.8, 2.0)
+
+
+def outlines(nodes, tri, region):
+    """Edges between regions (and on the boundary), for drawing region outlines."""
+    edges = {}
+    for t, (a, b, c) in enumerate(tri):
+        for e in ((a, b), (b, c), (c, a)):
+            edges.setdefault((min(e), max(e)), []).append(region[t])
+    return [nodes[list(k)] * 1e3 for k, r in edges.items() if len(r) == 1 or r[0] != r[1]]
+
+
+def static_sections(s, f):
+    """A static run: |B| map, airgap B_r around the full circle and its space spectrum, and how
+    much of each iron lies above common flux-density levels at this instant."""
     parts = []
     p = s["winding"]["poles"] // 2
+    nodes = f["mesh/nodes"][...]
+    tri = f["mesh/triangles"][...][:, :3]
+    region = f["mesh/triangle_region"][...]
+    b_abs = f["field/B_abs"][...]
+    fig, ax = plt.subplots(figsize=(6, 6))
+    mesh = Triangulation(nodes[:, 0] * 1e3, nodes[:, 1] * 1e3, tri)
+    pc = ax.tripcolor(mesh, facecolors=b_abs, cmap="inferno", shading="flat")
+    ax.add_collection(LineCollection(outlines(nodes, tri, region), colors="white", linewidths=0.3))
+    ax.set_aspect("equal"), ax.set_xlabel("x (mm)"), ax.set_ylabel("y (mm)")
+    fig.colorbar(pc, ax=ax, label="|B| (T)", shrink=0.8)
+    inst = s["supply"].get("instant", {})
+    parts.append("<h2>Field</h2>" + figure_html(
+        fig, f'|B| at t = {inst.get("time_s", 0) * 1e3:.3g} ms, rotor at '
+             f'{inst.get("rotor_angle_deg", 0):.3g}° (rotor drawn in its own frame), region outlines in white'))
 
-    # Case and cautions.
+    # Airgap B_r around the whole circle (the sector's images with their sign) and its spectrum.
+    sectors = int(f["mesh"].attrs["sectors"])
+    sign = -1.0 if int(f["mesh"].attrs["antiperiodic"]) else 1.0
+    br_sector = f["airgap/B_r"][...]
+    br = np.concatenate([br_sector * sign ** k for k in range(sectors)])
+    theta0 = f["airgap/theta"][0]
+    th = np.degrees(theta0 + 2 * np.pi * np.arange(br.size) / br.size)
+    spectrum = 2 * np.abs(np.fft.rfft(br)) / br.size
+    orders = np.arange(spectrum.size)
+    keep = (orders > 0) & (spectrum > 1e-3 * spectrum.max())
+    fig, (a1, a2) = plt.subplots(1, 2, figsize=(10, 3))
+    a1.plot(th, br, color=INK, lw=1)
+    a1.set_xlabel("mechanical angle θ (°)"), a1.set_ylabel("B_r at mid-gap (T)")
+    # Lines, not bars: hundreds of orders share the axis.
+    a2.vlines(orders[keep] / p, 1e-3 * spectrum.max(), spectrum[keep], color=ACCENT, lw=1.5)
+    a2.set_yscale("log"), a2.set_xlabel("electrical space order ν"), a2.set_ylabel("amplitude (T)")
+    top = orders[keep][np.argsort(spectrum[keep])[::-1][:8]]
+    rows = [[f"{m / p:g}", f"{m}", f"{spectrum[m]:.4f}"] for m in top]
+    parts.append("<h2>Airgap field</h2>" + figure_html(
+        fig, "Radial flux density at mid-gap around the full circle, and its space harmonics (log scale)") +
+        table_html(["ν (el)", "order (mech)", "amplitude (T)"], rows))
+
+    # Saturation at this instant: area shares of each iron above common levels.
+    names = [text(n) for n in f["mesh/region_names"][...]]
+    ids = list(f["mesh/region_ids"][...]) if "mesh/region_ids" in f else list(range(len(names)))
+    area = np.abs(np.cross(nodes[tri[:, 1]] - nodes[tri[:, 0]], nodes[tri[:, 2]] - nodes[tri[:, 0]])) / 2
+    rows = []
+    for iron in ("stator_iron", "rotor_iron"):
+        if iron not in names:
+            continue
+        sel = region == ids[names.index(iron)]
+        if not sel.any():
+            continue
+        total = area[sel].sum()
+        rows.append([iron.replace("_", " "), f"{b_abs[sel].max():.3f}"] +
+                    [f"{100 * area[sel & (b_abs > t)].sum() / total:.1f} %" for t in STATIC_THRESHOLDS_T])
+    parts.append("<h2>Saturation at this instant</h2>" + table_html(
+        ["iron", "peak |B| (T)"] + [f"area above {t:g} T" for t in STATIC_THRESHOLDS_T], rows))
+    return parts
+
+
+def case_parts(s):
+    """The case table and the cautions, for every kind of run."""
     sup = s["supply"]
     unb = sup.get("unbalance", {})
-    parts.append("<h2>Case</h2>" + table_html(["item", "value"], [
+    rows = [
         ["case", s["case_name"]],
         ["winding", f'{s["winding"]["slots"]} slots, {s["winding"]["poles"]} poles, '
                     f'{s["winding"]["layers"]} layer(s), pitch {s["winding"]["coil_pitch_slots"]} slots'],
         ["supply", f'{sup["frequency_hz"]:.6g} Hz, given as {sup.get("form", "?")}'],
-        ["current unbalance", f'VUF {unb.get("vuf_pct", 0):.3f} %, LVUR {unb.get("lvur_pct", 0):.3f} %, '
-                              f'PVUR {unb.get("pvur_pct", 0):.3f} %'],
-        ["steps", f'{s["solver"]["steps"]} ({s["study"]["steps_per_period"]} per period), '
-                  f'{s["solver"]["newton_iterations"]} Newton iterations, {s["solver"]["wall_s"]:.0f} s'],
-    ]))
-    parts.append("<div class='caution'><b>Cautions.</b> " +
-                 " ".join(html.escape(c) for c in s.get("cautions", [])) + "</div>")
+    ]
+    if "study" in s:
+        quantity = "voltage" if sup.get("feed") == "voltage" else "current"
+        rows.append([f"{quantity} unbalance", f'VUF {unb.get("vuf_pct", 0):.3f} %, LVUR '
+                     f'{unb.get("lvur_pct", 0):.3f} %, PVUR {unb.get("pvur_pct", 0):.3f} %'])
+        rows.append(["steps", f'{s["solver"]["steps"]} ({s["study"]["steps_per_period"]} per period), '
+                     f'{s["solver"]["newton_iterations"]} Newton iterations, {s["solver"]["wall_s"]:.0f} s'])
+    else:
+        inst = sup.get("instant", {})
+        rows.append(["study", "static: one instant"])
+        rows.append(["phase currents", ", ".join(f"{i:.4g} A" for i in inst.get("phase_current_a", []))])
+        rows.append(["solver", f'{s["solver"]["newton_iterations"]} Newton iterations, {s["solver"]["wall_s"]:.1f} s'])
+    return ["<h2>Case</h2>" + table_html(["item", "value"], rows),
+            "<div class='caution'><b>Cautions.</b> " +
+            " ".join(html.escape(c) for c in s.get("cautions", [])) + "</div>"]
+
+
+def write_page(out, s, parts):
+    style = ("body{font-family:sans-serif;max-width:60em;margin:2em auto;color:#1d3557}"
+             "table{border-collapse:collapse;margin:0.5em 0}td,th{border-bottom:1px solid #ccd;"
+             "padding:0.2em 0.6em;text-align:left;font-size:0.9em}figure{margin:1em 0}"
+             "img{max-width:100%}figcaption{font-size:0.85em;color:#556}"
+             ".caution{background:#fff4e5;border-left:4px solid #e07a1f;padding:0.5em 1em;margin:1em 0}")
+    page = (f"<!DOCTYPE html><html><head><meta charset='utf-8'><title>gapflux report: "
+            f"{html.escape(s['case_name'])}</title><style>{style}</style></head><body>"
+            f"<h1>{html.escape(s['case_name'])}</h1>" + "".join(parts) + "</body></html>")
+    path = os.path.join(out, "report.html")
+    # Whole or absent: written under a partial name, then renamed.
+    with open(path + ".partial", "w") as page_file:
+        page_file.write(page)
+    os.replace(path + ".partial", path)
+    print(f"report: {path}")
+
+
+def main(out):
+    summary_path, results_path = os.path.join(out, "summary.json"), os.path.join(out, "results.h5")
+    if not os.path.isdir(out):
+        sys.exit(f"report: {out} is not a folder; give the folder a `gapflux run` wrote into")
+    if not (os.path.isfile(summary_path) and os.path.isfile(results_path)):
+        sys.exit(f"report: {out} holds no finished gapflux run (summary.json and results.h5 are "
+                 "needed); give the folder a `gapflux run` wrote into")
+    s = json.load(open(summary_path))
+    f = h5py.File(results_path, "r")
+    if s.get("study", {}).get("kind") != "time_stepping":
+        return write_page(out, s, case_parts(s) + static_sections(s, f))
+    parts = []
+    p = s["winding"]["poles"] // 2
+    sup = s["supply"]
+    parts += case_parts(s)
     if sup.get("feed") == "voltage":
         parts.append(voltage_section(s, f))
 
@@ -185,13 +297,7 @@ def main(out):
         fig, ax = plt.subplots(figsize=(6, 6))
         mesh = Triangulation(nodes[:, 0] * 1e3, nodes[:, 1] * 1e3, tri)
         pc = ax.tripcolor(mesh, facecolors=peak, cmap="inferno", shading="flat")
-        edges = {}
-        for t, (a, b, c) in enumerate(tri):
-            for e in ((a, b), (b, c), (c, a)):
-                key = (min(e), max(e))
-                edges.setdefault(key, []).append(region[t])
-        outline = [nodes[list(k)] * 1e3 for k, r in edges.items() if len(r) == 1 or r[0] != r[1]]
-        ax.add_collection(LineCollection(outline, colors="white", linewidths=0.3))
+        ax.add_collection(LineCollection(outlines(nodes, tri, region), colors="white", linewidths=0.3))
         ax.set_aspect("equal")
         ax.set_xlabel("x (mm)")
         ax.set_ylabel("y (mm)")
@@ -236,20 +342,10 @@ def main(out):
             parts.append("<p>" + html.escape(s["baseline"]["guidance"]) + "</p><div class='caution'>" +
                          html.escape(s["baseline"]["caution"]) + "</div>")
 
-    style = ("body{font-family:sans-serif;max-width:60em;margin:2em auto;color:#1d3557}"
-             "table{border-collapse:collapse;margin:0.5em 0}td,th{border-bottom:1px solid #ccd;"
-             "padding:0.2em 0.6em;text-align:left;font-size:0.9em}figure{margin:1em 0}"
-             "img{max-width:100%}figcaption{font-size:0.85em;color:#556}"
-             ".caution{background:#fff4e5;border-left:4px solid #e07a1f;padding:0.5em 1em;margin:1em 0}")
-    page = (f"<!DOCTYPE html><html><head><meta charset='utf-8'><title>gapflux report: "
-            f"{html.escape(s['case_name'])}</title><style>{style}</style></head><body>"
-            f"<h1>{html.escape(s['case_name'])}</h1>" + "".join(parts) + "</body></html>")
-    path = os.path.join(out, "report.html")
-    open(path, "w").write(page)
-    print(f"report: {path}")
+    write_page(out, s, parts)
 
 
 if __name__ == "__main__":
     if len(sys.argv) != 2:
-        sys.exit("usage: make_report.py DIR  (a time-stepping run's output directory)")
+        sys.exit("usage: make_report.py DIR  (the output folder of a gapflux run)")
     main(sys.argv[1])

@@ -46,15 +46,18 @@ FieldSnapshot make_field_snapshot(const Assembler& assembler, const Eigen::Vecto
     }
     // The images whose copy of this triangle reaches into [0, sector): by its corners' angles.
     const ElementNodes& n = elements[e].nodes;
-    double lo = 1e300, hi = -1e300;
-    const double reference = angle_of(n.x[0]);
+    double lo = 1e300, hi = -1e300, reach = 0.0;
+    for (int i = 0; i < 3; ++i) reach = std::max(reach, n.x[i].norm());
+    double reference = -1.0;
     for (int i = 0; i < 3; ++i) {
-      // Corner angles unwrapped next to the first corner's, so a triangle across 0 stays whole.
+      if (n.x[i].norm() < 1e-9 * reach) continue;  // a corner on the axis has no angle
+      // Corner angles unwrapped next to the first one's, so a triangle across 0 stays whole.
       double a = angle_of(n.x[i]);
+      if (reference < 0.0) reference = a;
       a += 2.0 * std::numbers::pi * std::round((reference - a) / (2.0 * std::numbers::pi));
       lo = std::min(lo, a), hi = std::max(hi, a);
     }
-    const double tol = 1e-12;
+    const double tol = 1e-9;  // corners on a sector edge carry round-off in their angle
     for (int m = static_cast<int>(std::floor((lo - sector) / sector)) - 1;
          m <= static_cast<int>(std::ceil(hi / sector)) + 1; ++m) {
       const double a0 = lo - m * sector, a1 = hi - m * sector;

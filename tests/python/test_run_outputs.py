@@ -82,6 +82,18 @@ check("A" in vtu.point_data, "VTU point field A missing")
 pvd = open(os.path.join(out, "fields.pvd")).read()
 check("fields/step_00000.vtu" in pvd, "fields.pvd does not list the step")
 
+# The report of a static run, and of folders that hold no run: a page, or one clear line.
+make_report = os.path.join(os.path.dirname(__file__), "..", "..", "postproc", "report", "make_report.py")
+rep = subprocess.run([sys.executable, make_report, out], capture_output=True, text=True)
+check(rep.returncode == 0, f"static report failed: {rep.stderr[-500:]}")
+page = open(os.path.join(out, "report.html")).read() if rep.returncode == 0 else ""
+for part in ("<h2>Field</h2>", "<h2>Airgap field</h2>", "Saturation at this instant"):
+    check(part in page, f"static report lacks {part}")
+for folder in (os.path.join(tmp, "no_such_folder"), tmp):
+    rep = subprocess.run([sys.executable, make_report, folder], capture_output=True, text=True)
+    check(rep.returncode != 0 and "Traceback" not in rep.stderr and folder in rep.stderr,
+          f"report on {folder}: exit {rep.returncode}, {rep.stderr.strip()[-300:]}")
+
 # A time-stepping run's summary: real figures over time, nothing that belongs to one instant.
 ts_text = open(case).read().replace(
     "[mesh]", "[study]\nkind = \"time_stepping\"\nsteps_per_period = 24\nperiods = 0.25\n"
