@@ -41,7 +41,7 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
       fmt::print(out, "opening_width_mm = {:g}\ntip_height_mm = {:g}\nwedge_angle_deg = {:g}\n",
                  s.opening_width_m / mm, s.tip_height_m / mm, s.wedge_angle_rad * to_deg);
       fmt::print(out, "body = \"{}\"\n", to_string(s.body));
-      if (s.body == SlotBody::parallel_tooth)
+      if (s.body == SlotBody::constant_tooth_width)
         fmt::print(out, "tooth_width_mm = {:g}\n", s.tooth_width_m / mm);
       else
         fmt::print(out, "slot_width_mm = {:g}\n", s.slot_width_m / mm);

@@ -47,14 +47,25 @@ StatorSlotSpec parse_stator_slot(TableReader t) {
       s.opening_width_m = length_mm(t, "opening_width_mm", std::nullopt, "the slot opening width");
       s.tip_height_m = length_mm(t, "tip_height_mm", std::nullopt, "the tooth-tip height");
       s.wedge_angle_rad = number_in(t, "wedge_angle_deg", 20.0, 0.0, 75.0, "degrees") * deg;
+      // Earlier names of the two bodies, refused with the new ones (named by what stays constant).
+      if (const auto body = t.string("body")) {
+        if (*body == "parallel_tooth")
+          throw t.error("body",
+                        "\"parallel_tooth\" is now named \"constant_tooth_width\" (the "
+                        "teeth keep their width, the slot widens outward)");
+        if (*body == "parallel_slot")
+          throw t.error("body",
+                        "\"parallel_slot\" is now named \"constant_slot_width\" (the "
+                        "slot keeps its width, the teeth widen outward)");
+      }
       s.body = static_cast<SlotBody>(
-          choice(t, "body", {"parallel_tooth", "parallel_slot"}, std::size_t{0}));
-      if (s.body == SlotBody::parallel_tooth) {
+          choice(t, "body", {"constant_tooth_width", "constant_slot_width"}, std::size_t{0}));
+      if (s.body == SlotBody::constant_tooth_width) {
         s.tooth_width_m = length_mm(t, "tooth_width_mm", std::nullopt, "the tooth width");
-        not_for("slot_width_mm", "body = \"parallel_tooth\" takes tooth_width_mm");
+        not_for("slot_width_mm", "body = \"constant_tooth_width\" takes tooth_width_mm");
       } else {
         s.slot_width_m = length_mm(t, "slot_width_mm", std::nullopt, "the slot width");
-        not_for("tooth_width_mm", "body = \"parallel_slot\" takes slot_width_mm");
+        not_for("tooth_width_mm", "body = \"constant_slot_width\" takes slot_width_mm");
       }
       s.bottom = static_cast<SlotBottom>(choice(t, "bottom", {"round", "flat"}, std::size_t{0}));
       not_for("wedge_height_mm", "semi-closed slots take tip_height_mm and wedge_angle_deg");
@@ -62,7 +73,7 @@ StatorSlotSpec parse_stator_slot(TableReader t) {
       break;
     }
     case SlotShape::open: {
-      s.body = SlotBody::parallel_slot;
+      s.body = SlotBody::constant_slot_width;
       s.slot_width_m = length_mm(t, "slot_width_mm", std::nullopt, "the slot width");
       s.opening_width_m = s.slot_width_m;
       s.wedge_height_m = length_or_zero_mm(t, "wedge_height_mm", 0.0);
@@ -415,7 +426,7 @@ const char* to_string(SlotShape s) {
   return "?";
 }
 const char* to_string(SlotBody b) {
-  return b == SlotBody::parallel_tooth ? "parallel_tooth" : "parallel_slot";
+  return b == SlotBody::constant_tooth_width ? "constant_tooth_width" : "constant_slot_width";
 }
 const char* to_string(SlotBottom b) {
   return b == SlotBottom::round ? "round" : "flat";

@@ -23,9 +23,9 @@ std::vector<Feature> thin_features(const Case& c, const Lamination& lam) {
   const auto& s = c.stator.slot;
   const double half_gap = 0.5 * lam.airgap_m();
   std::vector<Feature> out;
-  const char* tooth_key = s.shape == SlotShape::open_radial    ? "stator.slot.slot_angle_deg"
-                          : s.body == SlotBody::parallel_tooth ? "stator.slot.tooth_width_mm"
-                                                               : "stator.slot.slot_width_mm";
+  const char* tooth_key = s.shape == SlotShape::open_radial          ? "stator.slot.slot_angle_deg"
+                          : s.body == SlotBody::constant_tooth_width ? "stator.slot.tooth_width_mm"
+                                                                     : "stator.slot.slot_width_mm";
   if (s.shape != SlotShape::open_radial || s.slot_angle_rad > 0.0)
     out.push_back({"narrowest stator tooth", tooth_key, lam.slot.tooth_width_min_m,
                    half_gap + lam.slot.tip_depth_m});

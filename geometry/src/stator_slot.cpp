@@ -60,7 +60,7 @@ SlotShapes build_walled_slot(const Case& c) {
 
   // Half-width of the body, y(x) = y0 + y1·x.
   double y0 = 0.0, y1 = 0.0;
-  if (s.body == SlotBody::parallel_tooth) {
+  if (s.body == SlotBody::constant_tooth_width) {
     y0 = -0.5 * s.tooth_width_m / std::cos(alpha);
     y1 = std::tan(alpha);
   } else {
@@ -94,7 +94,7 @@ SlotShapes build_walled_slot(const Case& c) {
 
   // Tooth width.
   const double tooth_min =
-      s.body == SlotBody::parallel_tooth
+      s.body == SlotBody::constant_tooth_width
           ? s.tooth_width_m
           : 2.0 * (x_w * std::sin(alpha) - 0.5 * s.slot_width_m * std::cos(alpha));
   if (tooth_min <= 0.0)
@@ -111,7 +111,7 @@ SlotShapes build_walled_slot(const Case& c) {
   if (s.bottom == SlotBottom::flat) {
     walls.x_e = x_max;
     walls.y_e = y_of(x_max);
-  } else if (s.body == SlotBody::parallel_tooth) {
+  } else if (s.body == SlotBody::constant_tooth_width) {
     // Arc tangent to both walls with its deepest point at x_max: centre c, radius c·sin α − t/2.
     const double sin_a = std::sin(alpha);
     bottom_center = (x_max + 0.5 * s.tooth_width_m) / (1.0 + sin_a);

@@ -19,7 +19,7 @@ struct MachineSpec {
 };
 
 enum class SlotShape { semi_closed, open, open_radial };
-enum class SlotBody { parallel_tooth, parallel_slot };
+enum class SlotBody { constant_tooth_width, constant_slot_width };
 enum class SlotBottom { round, flat };
 
 // Stator slot; see docs/case-file.md for the drawing that labels each dimension.
@@ -30,9 +30,9 @@ struct StatorSlotSpec {
   double tip_height_m = 0.0;     // radial length of the opening's parallel walls
   double wedge_angle_rad = 0.0;  // slope of the tip underside, from the tangential direction
   // semi_closed and open: the slot body
-  SlotBody body = SlotBody::parallel_tooth;
-  double tooth_width_m = 0.0;  // body = parallel_tooth
-  double slot_width_m = 0.0;   // body = parallel_slot, and open slots
+  SlotBody body = SlotBody::constant_tooth_width;
+  double tooth_width_m = 0.0;  // body = constant_tooth_width
+  double slot_width_m = 0.0;   // body = constant_slot_width, and open slots
   SlotBottom bottom = SlotBottom::round;
   // all shapes
   double slot_depth_m = 0.0;    // from the bore radius to the deepest point of the slot
