@@ -353,10 +353,13 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
         {"saturation", zones},
         {"added_waves", waves},
         {"guidance",
-         std::string("NEMA MG-1 (from memory) advises against running above 1 % voltage "
-                     "unbalance and derates the rated power beyond it (to about 0.82 at 4 % and "
-                     "0.75 at 5 %); IEC 60034-26 gives a similar curve. Both refer to voltage "
-                     "unbalance at the terminals; ") +
+         // The derating figures are recalled from memory (NEMA MG-1 part 14): the text
+         // tells users to take them from the standards' current editions.
+         std::string("NEMA MG-1 advises against running above 1 % voltage unbalance and "
+                     "derates the rated power beyond it (to about 0.82 at 4 % and 0.75 at 5 %); "
+                     "IEC 60034-26 gives a similar curve. Take the figures from the current "
+                     "editions of those standards. Both refer to voltage unbalance at the "
+                     "terminals; ") +
              (b.voltage_fed
                   ? "this voltage-fed run reports it (supply.unbalance), but without the cage's "
                     "induced currents the added losses here miss the rotor's negative-sequence "
