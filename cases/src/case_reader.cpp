@@ -163,6 +163,29 @@ RotorBarSpec parse_rotor_bar(TableReader t) {
   return b;
 }
 
+EndRingSpec parse_end_ring(TableReader t) {
+  EndRingSpec e;
+  e.mean_diameter_m = length_or_zero_mm(t, "mean_diameter_mm", 0.0);
+  e.radial_height_m = length_or_zero_mm(t, "radial_height_mm", 0.0);
+  e.axial_width_m = length_or_zero_mm(t, "axial_width_mm", 0.0);
+  if (t.has("segment_resistance_uohm")) {
+    e.segment_resistance_ohm =
+        number_in(t, "segment_resistance_uohm", {}, 0.0, 1e9, "µΩ (per segment of one ring)") *
+        1e-6;
+    if (!(e.segment_resistance_ohm > 0.0))
+      throw t.error("segment_resistance_uohm", "must be greater than 0 µΩ");
+    for (const char* k : {"mean_diameter_mm", "radial_height_mm", "axial_width_mm"})
+      if (t.has(k))
+        throw t.error(k, "does not apply with segment_resistance_uohm given: the dimensions only "
+                         "serve to compute it");
+  }
+  if (t.has("segment_inductance_nh"))
+    e.segment_inductance_h =
+        number_in(t, "segment_inductance_nh", {}, 0.0, 1e9, "nH (per segment of one ring)") * 1e-9;
+  t.finish();
+  return e;
+}
+
 RotorSpec parse_rotor(TableReader t) {
   RotorSpec r;
   r.kind = static_cast<RotorKind>(choice(t, "kind", {"cage", "smooth"}, std::size_t{0}));
@@ -176,9 +199,13 @@ RotorSpec parse_rotor(TableReader t) {
   if (r.kind == RotorKind::cage) {
     r.bars = integer_in(t, "bars", std::nullopt, 3, 720);
     r.bar = parse_rotor_bar(required_table(t, "bar", "the bar shape and its dimensions"));
+    r.bar_currents = static_cast<BarCurrents>(
+        choice(t, "bar_currents", {"induced", "imposed"}, std::size_t{0}));
+    r.cage_temperature_c = number_in(t, "cage_temperature_c", 100.0, -60.0, 400.0, "°C");
+    if (auto ring = t.table("ring")) r.ring = parse_end_ring(*ring);
   } else {
-    not_applicable.emplace_back("bars", "a smooth rotor has no bars");
-    not_applicable.emplace_back("bar", "a smooth rotor has no bars");
+    for (const char* k : {"bars", "bar", "bar_currents", "cage_temperature_c", "ring"})
+      not_applicable.emplace_back(k, "a smooth rotor has no bars");
   }
   t.finish(not_applicable);
   return r;
@@ -246,7 +273,7 @@ MaterialDefinition parse_material_definition(TableReader t, const std::string& n
 }
 
 MaterialsSpec parse_materials(std::optional<TableReader> t) {
-  MaterialsSpec m{"M400-50A", "M400-50A", "copper", "aluminium", "shaft_steel", {}};
+  MaterialsSpec m{"M400-50A", "M400-50A", "copper", "die_cast_aluminium", "", "shaft_steel", {}};
   if (!t) return m;
   const auto name = [&](const std::string& key, std::string& out) {
     if (auto v = t->string(key)) {
@@ -258,6 +285,7 @@ MaterialsSpec parse_materials(std::optional<TableReader> t) {
   name("rotor_iron", m.rotor_iron);
   name("coils", m.coils);
   name("bars", m.bars);
+  name("rings", m.rings);
   name("shaft", m.shaft);
   if (auto defs = t->table("define")) {
     for (const std::string& key : defs->keys()) {
@@ -393,6 +421,18 @@ Case read_case_text(std::string_view text, const std::string& file_name) {
   if (c.rotor_currents.bar_rms_a > 0.0 && c.rotor.kind != RotorKind::cage)
     throw c.sources.error("rotor_currents.bar_rms_a",
                           "a smooth rotor has no bars to carry currents");
+  if (c.rotor.kind == RotorKind::cage) {
+    const bool table = c.sources.find("rotor_currents").line > 0;
+    if (c.rotor.bar_currents == BarCurrents::induced && table)
+      throw c.sources.error("rotor_currents",
+                            "does not apply: the bars' currents are induced by the field (the "
+                            "default); set rotor.bar_currents = \"imposed\" to impose this set "
+                            "instead");
+    if (c.rotor.bar_currents == BarCurrents::imposed && !table)
+      throw c.sources.error("rotor.bar_currents",
+                            "\"imposed\" needs a [rotor_currents] table with bar_rms_a and "
+                            "angle_deg");
+  }
   c.solver = parse_solver(root.table("solver"));
   c.output = parse_output(root.table("output"));
   root.finish();

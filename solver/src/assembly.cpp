@@ -128,7 +128,20 @@ void Assembler::assemble(const Eigen::VectorXd& x, const RegionModel& model, boo
     const Material& material = *model.material[rec.region];
     const ElementSource& source = model.source[rec.region];
     magnetostatic_element(rec.nodes, a, material, source, tangent, k_local, r_local, f_local);
-    const bool loaded = source.function != nullptr || source.constant_a_per_m2 != 0.0;
+    bool loaded = source.function != nullptr || source.constant_a_per_m2 != 0.0;
+    const double sigma =
+        model.eddy_s_per_m.empty() || !model.eddy_history ? 0.0 : model.eddy_s_per_m[rec.region];
+    if (sigma > 0.0) {
+      // The history's part of the eddy term is a known source: it counts in the load too.
+      const LocalVector a_h = local_values(static_cast<std::size_t>(e), *model.eddy_history);
+      const double sigma_rate = sigma * model.eddy_rate;
+      eddy_element(rec.nodes, a - a_h, sigma_rate, tangent, k_local, r_local);
+      LocalMatrix unused;
+      LocalVector history_load = LocalVector::Zero();
+      eddy_element(rec.nodes, a_h, sigma_rate, false, unused, history_load);
+      f_local += history_load;
+      loaded = true;
+    }
     for (int i = 0; i < n; ++i) {
       if (rec.dof[i] < 0) continue;
 #pragma omp atomic

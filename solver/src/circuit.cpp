@@ -114,6 +114,7 @@ LowRankTerm WindingCircuit::step_term(const Eigen::MatrixXd& coupling, const Tri
   term.w = zf.solve(q);
   term.m = g * zf.solve(Eigen::MatrixXd::Identity(z.rows(), z.cols()));
   term.m = 0.5 * (term.m + term.m.transpose());
+  term.m_inverse = z / g;
   return term;
 }
 

@@ -40,6 +40,29 @@ std::vector<std::pair<std::size_t, double>> worst_elements(const Assembler& asse
   return all;
 }
 
+LowRankTerm stack_terms(const std::vector<const LowRankTerm*>& terms) {
+  long n = 0, m = 0;
+  for (const LowRankTerm* t : terms) {
+    n = std::max(n, static_cast<long>(t->b.rows()));
+    m += t->b.cols();
+  }
+  LowRankTerm out;
+  out.b = Eigen::MatrixXd::Zero(n, m);
+  out.m = Eigen::MatrixXd::Zero(m, m);
+  out.m_inverse = Eigen::MatrixXd::Zero(m, m);
+  out.w = Eigen::VectorXd::Zero(m);
+  long at = 0;
+  for (const LowRankTerm* t : terms) {
+    const long k = t->b.cols();
+    out.b.middleCols(at, k) = t->b;
+    out.m.block(at, at, k, k) = t->m;
+    out.m_inverse.block(at, at, k, k) = t->m_inverse;
+    out.w.segment(at, k) = t->w;
+    at += k;
+  }
+  return out;
+}
+
 NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const RegionModel& model,
                           const NewtonSettings& settings, Eigen::VectorXd& x,
                           const LowRankTerm* low_rank) {

@@ -27,10 +27,10 @@ void NewtonStepSolver::prepare_low_rank() {
   const long m = b.cols();
   y_.resize(b.rows(), m);
   for (long k = 0; k < m; ++k) cholesky_.solve(b.col(k).data(), y_.col(k).data());
-  // LDLT, not inverse(): libgmsh exports its own PartialPivLU<MatrixXd>, and an instantiation
-  // here would be interposed with it (a mismatched allocator under ASan).
-  const Eigen::MatrixXd m_inverse = low_rank_->m.ldlt().solve(Eigen::MatrixXd::Identity(m, m));
-  capacitance_.compute(m_inverse + b.transpose() * y_);  // SPD
+  // Symmetric but indefinite when a winding's term (M > 0) and a cage's (M < 0) are stacked:
+  // a full-pivoting LU of this small matrix. (Not PartialPivLU<MatrixXd>: libgmsh exports its
+  // own, and an instantiation here would be interposed with it — a mismatched allocator.)
+  capacitance_.compute(low_rank_->m_inverse + b.transpose() * y_);
 }
 
 void NewtonStepSolver::apply_factor(const Eigen::VectorXd& b, Eigen::VectorXd& delta) {

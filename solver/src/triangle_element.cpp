@@ -136,6 +136,35 @@ void magnetostatic_element(const ElementNodes& e, const LocalVector& a, const Ma
   }
 }
 
+void eddy_element(const ElementNodes& e, const LocalVector& a_minus_history, double sigma_rate,
+                  bool want_tangent, LocalMatrix& tangent, LocalVector& residual) {
+  const int n = e.n_nodes();
+  double values[max_element_nodes];
+  for (const QuadraturePoint& q : quadrature(e.order)) {
+    const PointGeometry g = point_geometry(e, q.xi, q.eta);
+    const double w = q.weight * g.det_j * sigma_rate;
+    shape_values(e.order, q.xi, q.eta, values);
+    double rate_of_a = 0.0;
+    for (int i = 0; i < n; ++i) rate_of_a += values[i] * a_minus_history[i];
+    for (int i = 0; i < n; ++i) {
+      residual[i] += w * values[i] * rate_of_a;
+      if (!want_tangent) continue;
+      for (int k = 0; k < n; ++k) tangent(i, k) += w * values[i] * values[k];
+    }
+  }
+}
+
+LocalVector shape_integrals(const ElementNodes& e) {
+  LocalVector out = LocalVector::Zero();
+  double values[max_element_nodes];
+  for (const QuadraturePoint& q : quadrature(e.order)) {
+    const PointGeometry g = point_geometry(e, q.xi, q.eta);
+    shape_values(e.order, q.xi, q.eta, values);
+    for (int i = 0; i < e.n_nodes(); ++i) out[i] += q.weight * g.det_j * values[i];
+  }
+  return out;
+}
+
 Vec2 flux_density_at(const ElementNodes& e, const LocalVector& a, double xi, double eta) {
   const PointGeometry g = point_geometry(e, xi, eta);
   Vec2 grad_a = Vec2::Zero();

@@ -65,12 +65,29 @@ struct RotorBarSpec {
   double opening_height_m = 0.0;    // semi_open: radial length of the slit
 };
 
+// The bars' currents: induced by the field through the cage's circuit, or an imposed balanced
+// set ([rotor_currents]) for quick magnetising studies.
+enum class BarCurrents { induced, imposed };
+
+// The end rings (both alike): their cross-section and mean diameter, or each segment's values
+// given directly (0 where not given: estimated from the dimensions; docs/case-file.md).
+struct EndRingSpec {
+  double mean_diameter_m = 0.0;     // 0: through the middle of the bars
+  double radial_height_m = 0.0;     // 0: the bars' radial height
+  double axial_width_m = 0.0;       // 0: for the bars' current density (common practice)
+  double segment_resistance_ohm = 0.0;  // > 0: given, instead of from the dimensions
+  double segment_inductance_h = -1.0;   // ≥ 0: given; < 0: estimated
+};
+
 struct RotorSpec {
   RotorKind kind = RotorKind::cage;
   double outer_diameter_m = 0.0;
   double shaft_diameter_m = 0.0;  // 0: no shaft region
   int bars = 0;                   // R; 0 for a smooth rotor
   RotorBarSpec bar;
+  BarCurrents bar_currents = BarCurrents::induced;
+  double cage_temperature_c = 100.0;  // bars and rings
+  EndRingSpec ring;
 };
 
 struct WindingSpec {
@@ -108,6 +125,7 @@ struct MaterialsSpec {
   std::string rotor_iron;
   std::string coils;
   std::string bars;
+  std::string rings;  // "": the bars' material
   std::string shaft;
   std::vector<MaterialDefinition> definitions;
 };

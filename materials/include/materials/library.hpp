@@ -42,7 +42,7 @@ const Material* find_material(const std::string& name);
 // Materials of the machine's regions, looked up and checked for suitability (iron regions take
 // a steel, coils and bars a conductor). Throws InputError naming the [materials] key.
 struct RegionMaterials {
-  Material stator_iron, rotor_iron, coils, bars, shaft, air;
+  Material stator_iron, rotor_iron, coils, bars, rings, shaft, air;
 };
 RegionMaterials resolve_region_materials(const Case& c);
 

@@ -26,10 +26,16 @@ std::vector<ElementRecord> build_element_records(const Mesh& mesh, const BandMes
                                                  const DofMap& dofs);
 int total_dofs(const DofMap& dofs, const BandMesh* band);
 
-// Per-region material and source, the solver's view of a case.
+// Per-region material and source, the solver's view of a case. Solid conductors with induced
+// currents (the cage's bars) add the eddy term σ·rate·(A − A_h) in their regions: `eddy_s_per_m`
+// holds σ per region (0: none), `eddy_rate` the time scheme's a0/Δt and `eddy_history` A_h at
+// every DOF (the difference formula's history over a0), both unset in a magnetostatic solve.
 struct RegionModel {
   std::vector<const Material*> material;  // per region
   std::vector<ElementSource> source;      // per region
+  std::vector<double> eddy_s_per_m;       // per region; empty: no eddy currents anywhere
+  double eddy_rate = 0.0;
+  const Eigen::VectorXd* eddy_history = nullptr;
 };
 
 class Assembler {

@@ -24,17 +24,25 @@ struct NewtonSettings {
   int cg_budget = 20;
 };
 
-// A term B·(M·Bᵀx − w) added to the residual and B·M·Bᵀ to the Jacobian, with M symmetric
-// positive definite and B of few columns: how eliminated circuit equations enter the field
-// problem (circuit.hpp). The step solves with the factor of J by the Woodbury identity:
-// (J + BMBᵀ)⁻¹r = J⁻¹r − Y·(M⁻¹ + BᵀY)⁻¹·BᵀJ⁻¹r, Y = J⁻¹B.
+// A term B·(M·Bᵀx − w) added to the residual and B·M·Bᵀ to the Jacobian, with M symmetric and
+// invertible and B of few columns: how the eliminated unknowns of the circuits coupled to the
+// field enter it (coupled_circuit.hpp). A stranded winding's M is positive definite; a solid
+// conductor's (the cage) negative definite — the Jacobian with every term stays symmetric
+// positive definite, as the physics requires. The step solves with the factor of J by the
+// Woodbury identity: (J + BMBᵀ)⁻¹r = J⁻¹r − Y·(M⁻¹ + BᵀY)⁻¹·BᵀJ⁻¹r, Y = J⁻¹B.
 struct LowRankTerm {
-  Eigen::MatrixXd b;  // n × m
-  Eigen::MatrixXd m;  // m × m
-  Eigen::VectorXd w;  // m
-  // The loop currents the term stands for at x: w − M·Bᵀx.
+  Eigen::MatrixXd b;          // n × m
+  Eigen::MatrixXd m;          // m × m
+  Eigen::MatrixXd m_inverse;  // m × m, given by the circuit (it knows it without a solve)
+  Eigen::VectorXd w;          // m
+  // What the term stands for at x (a winding's loop currents, a cage's scaled bar voltages):
+  // w − M·Bᵀx.
   Eigen::VectorXd currents(const Eigen::VectorXd& x) const { return w - m * (b.transpose() * x); }
 };
+
+// The terms of several circuits as one: B side by side, M and M⁻¹ block-diagonal, w stacked.
+// Each circuit's part of `currents` is the block at its column offset (in the order given).
+LowRankTerm stack_terms(const std::vector<const LowRankTerm*>& terms);
 
 struct NewtonIteration {
   int iteration = 0;

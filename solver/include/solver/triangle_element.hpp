@@ -59,6 +59,17 @@ void magnetostatic_element(const ElementNodes& e, const LocalVector& a, const Ma
                            const ElementSource& source, bool want_tangent, LocalMatrix& tangent,
                            LocalVector& residual, LocalVector& load);
 
+// Eddy currents in a solid conductor, one element: the term ∫ σ·∂A/∂t·N_i dS of the field
+// equation with ∂A/∂t ≈ rate·(A − A_h), the time scheme's difference formula (rate = a0/Δt,
+// A_h its history term over a0). `a_minus_history` holds A − A_h at the element's nodes;
+// `sigma_rate` is σ·rate (S/(m·s)). Adds σ·rate·M_e·(a − a_h) to `residual` and σ·rate·M_e to
+// `tangent` (M_e the element's mass matrix ∫ N_i N_j dS).
+void eddy_element(const ElementNodes& e, const LocalVector& a_minus_history, double sigma_rate,
+                  bool want_tangent, LocalMatrix& tangent, LocalVector& residual);
+
+// ∫ N_i dS over the element.
+LocalVector shape_integrals(const ElementNodes& e);
+
 // Flux density at the element's reference centroid (T), B = (∂A/∂y, −∂A/∂x).
 Vec2 flux_density_at(const ElementNodes& e, const LocalVector& a, double xi, double eta);
 
