@@ -128,8 +128,9 @@ void TransientStudy::set_up() {
     impedance_ = {winding_r_.resistance_ohm, winding_r_.end_inductance_h};
     circuit_ = std::make_unique<WindingCircuit>(
         case_.supply.connection, impedance_, case_.study.time_scheme,
-        case_.machine.stack_length_m * mesh_.symmetry.sectors);
+        case_.machine.stack_length_m * mesh_.symmetry.sectors, case_.supply);
   }
+  if (cage_wanted()) set_up_cage();
   const int bars = case_.rotor.kind == RotorKind::cage ? case_.rotor.bars : 0;
   if (const std::string w = slot_passing_warning(grid_, case_.stator.slots, bars); !w.empty())
     fmt::print(stderr, "warning: {}\n", w);
@@ -193,23 +194,35 @@ void TransientStudy::step(int n) {
   const std::vector<double> bars =
       bar_current_density(mesh_, case_, lamination_.winding, lamination_.bars, t, angle);
   for (std::size_t r = 0; r < j.size(); ++r) j[r] += bars[r];
-  const RegionModel model = make_region_model(mesh_, materials_, j);
+  RegionModel model = make_region_model(mesh_, materials_, j);
   const NewtonSettings settings = newton_settings(case_.solver);
-  std::array<double, 3> currents{0, 0, 0};
-  WindingCircuit::StepResult circuit_step;
-  NewtonReport report;
+
+  // The circuits coupled to the field: each eliminated into a term of the Newton system.
+  std::vector<CoupledCircuit*> circuits;
   if (circuit_) {
-    const Eigen::MatrixXd coupling = coil_coupling(system.assembler(), coils_);
-    if (!have_last_) start_circuit(system, model, coupling, bars, settings);
-    const LowRankTerm term =
-        circuit_->step_term(coupling, branch_source_voltages_v(case_.supply, t), grid_.dt_s);
-    report = system.solve(model, settings, &term);
-    circuit_step = circuit_->finish_step(term, coupling, system.x(), grid_.dt_s);
-    currents = circuit_step.branch_current_a;
-  } else {
-    report = system.solve(model, settings);
-    currents = supply_phase_currents_a(case_.supply, t);
+    circuit_->attach(coil_coupling(system.assembler(), coils_));
+    if (!have_last_) start_circuit(system, model, circuit_->coupling(), bars, settings);
+    circuits.push_back(circuit_.get());
   }
+  if (cage_wanted()) {
+    if (!cage_) start_cage(system, model, settings);
+    x_before_ = cage_->newest_history();
+    cage_->prepare(grid_.dt_s);
+    add_eddy_currents(model);
+    circuits.push_back(cage_.get());
+  }
+  std::vector<LowRankTerm> terms;
+  std::vector<const LowRankTerm*> parts;
+  for (CoupledCircuit* c : circuits) terms.push_back(c->step_term(t, grid_.dt_s));
+  for (const LowRankTerm& term : terms) parts.push_back(&term);
+  const LowRankTerm stacked = stack_terms(parts);
+  NewtonReport report = system.solve(model, settings, circuits.empty() ? nullptr : &stacked);
+  for (std::size_t k = 0; k < circuits.size(); ++k)
+    circuits[k]->finish_step(terms[k], system.x(), grid_.dt_s);
+  std::array<double, 3> currents =
+      circuit_ ? circuit_->last().branch_current_a : supply_phase_currents_a(case_.supply, t);
+  WindingCircuit::StepResult circuit_step;
+  if (circuit_) circuit_step = circuit_->last();
   newton_last_ = report.iterations;
   factorizations_last_ = report.factorizations;
   newton_total_ += report.iterations;
@@ -250,6 +263,7 @@ void TransientStudy::step(int n) {
     h5_->append_row("steps/line_voltage", {line_v.begin(), line_v.end()}, "V");
     h5_->append_row("steps/supply_voltage", {phase_v.begin(), phase_v.end()}, "V");
   }
+  if (cage_) write_cage_step(system);
   h5_->append_row("steps/newton_iterations", {double(report.iterations)}, "1");
   h5_->append_row("steps/newton_factorizations", {double(report.factorizations)}, "1");
   h5_->append_row("steps/cg_iterations", {double(report.cg_iterations)}, "1");
@@ -276,6 +290,9 @@ void TransientStudy::step(int n) {
   }
   h5_->write("restart/x",
              std::vector<double>(system.x().data(), system.x().data() + system.x().size()), "1");
+  if (cage_)  // the cage's second history value (BDF2) after a resume
+    h5_->write("restart/x_previous",
+               std::vector<double>(x_before_.data(), x_before_.data() + x_before_.size()), "1");
   if (n % case_.output.fields_every == 0) write_fields(n, system, fields);
   h5_->attribute("/", "steps_done", static_cast<long>(n + 1));
   h5_->flush();
@@ -291,14 +308,15 @@ void TransientStudy::step(int n) {
 
 void TransientStudy::write_fields(int n, const MagnetostaticSystem& system,
                                   const ElementFields& fields) {
-  const FieldSnapshot snap = make_field_snapshot(system.assembler(), system.x(), mesh_, fields);
+  FieldSnapshot snap = make_field_snapshot(system.assembler(), system.x(), mesh_, fields,
+                                           cage_ ? &bar_density_ : nullptr);
   write_fields_vtu(folder_->path(snapshot_file(n)), snap);
   write_ensight_step(out_dir_, n, snap);
   snapshot_steps_.emplace_back(grid_.time(n), n);
   std::vector<std::pair<double, std::string>> files;
   for (const auto& [time, step] : snapshot_steps_) files.emplace_back(time, snapshot_file(step));
   write_pvd(folder_->path("fields.pvd"), files);
-  write_ensight_case(out_dir_, snapshot_steps_);
+  write_ensight_case(out_dir_, snapshot_steps_, cage_ != nullptr);
 }
 
 std::string snapshot_file(int step) {

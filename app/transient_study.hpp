@@ -20,6 +20,8 @@
 #include "postproc/saturation.hpp"
 #include "postproc/summary.hpp"
 #include "run_folder.hpp"
+#include "solver/cage_circuit.hpp"
+#include "solver/cage_parameters.hpp"
 #include "solver/circuit.hpp"
 #include "solver/magnetostatic_system.hpp"
 #include "solver/time_grid.hpp"
@@ -62,6 +64,17 @@ class TransientStudy {
                      const Eigen::MatrixXd& coupling, const std::vector<double>& bar_density,
                      const NewtonSettings& settings);
   void write_fields(int n, const MagnetostaticSystem& system, const ElementFields& fields);
+  // The cage with induced currents (transient_cage.cpp).
+  bool cage_wanted() const {
+    return case_.rotor.kind == RotorKind::cage && case_.rotor.bar_currents == BarCurrents::induced;
+  }
+  void set_up_cage();
+  // Creates the cage's circuit on the first step's system, with the field it is switched on in
+  // (or, resuming, the stored history).
+  void start_cage(MagnetostaticSystem& system, const RegionModel& model,
+                  const NewtonSettings& settings);
+  void add_eddy_currents(RegionModel& model) const;
+  void write_cage_step(const MagnetostaticSystem& system);  // rows of steps/ and bar_density_
   // Peak |B| and time over the threshold per triangle over the last period, written to
   // results.h5 (saturation/) and saturation.vtu.
   // `b_rows`: steps/B as read (the finished steps' rows).
@@ -83,6 +96,11 @@ class TransientStudy {
   IronLoss iron_loss_;
   std::optional<SupplySpec> supply_override_;
   std::unique_ptr<WindingCircuit> circuit_;  // voltage feed only
+  std::unique_ptr<CageCircuit> cage_;        // induced bar currents only
+  CageValues cage_values_;
+  std::vector<int> bar_of_region_;   // per mesh region: its bar in the sector, −1 elsewhere
+  Eigen::VectorXd x_before_;         // the cage's newest history value before the step
+  std::vector<double> bar_density_;  // per assembler element of the last step: J in the bars
   BranchImpedance impedance_;
   WindingResistance winding_r_;  // the phase resistance and end-winding data, once per run
   RunSummary summary_;

@@ -176,8 +176,9 @@ EndRingSpec parse_end_ring(TableReader t) {
       throw t.error("segment_resistance_uohm", "must be greater than 0 µΩ");
     for (const char* k : {"mean_diameter_mm", "radial_height_mm", "axial_width_mm"})
       if (t.has(k))
-        throw t.error(k, "does not apply with segment_resistance_uohm given: the dimensions only "
-                         "serve to compute it");
+        throw t.error(k,
+                      "does not apply with segment_resistance_uohm given: the dimensions only "
+                      "serve to compute it");
   }
   if (t.has("segment_inductance_nh"))
     e.segment_inductance_h =
@@ -199,8 +200,8 @@ RotorSpec parse_rotor(TableReader t) {
   if (r.kind == RotorKind::cage) {
     r.bars = integer_in(t, "bars", std::nullopt, 3, 720);
     r.bar = parse_rotor_bar(required_table(t, "bar", "the bar shape and its dimensions"));
-    r.bar_currents = static_cast<BarCurrents>(
-        choice(t, "bar_currents", {"induced", "imposed"}, std::size_t{0}));
+    r.bar_currents =
+        static_cast<BarCurrents>(choice(t, "bar_currents", {"induced", "imposed"}, std::size_t{0}));
     r.cage_temperature_c = number_in(t, "cage_temperature_c", 100.0, -60.0, 400.0, "°C");
     if (auto ring = t.table("ring")) r.ring = parse_end_ring(*ring);
   } else {

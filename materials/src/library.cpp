@@ -212,8 +212,8 @@ RegionMaterials resolve_region_materials(const Case& c) {
                 : lookup(c, "rings", c.materials.rings, is_conductor, "end rings");
   // Induced bar currents need a conductor that conducts, at the cage temperature.
   if (c.rotor.kind == RotorKind::cage && c.rotor.bar_currents == BarCurrents::induced)
-    for (const auto& [key, m] : {std::pair<const char*, const Material*>{"bars", &r.bars},
-                                 {"rings", &r.rings}}) {
+    for (const auto& [key, m] :
+         {std::pair<const char*, const Material*>{"bars", &r.bars}, {"rings", &r.rings}}) {
       const double sigma = m->conductivity_at(c.rotor.cage_temperature_c);
       if (!(sigma > 0.0))
         throw c.sources.error(

@@ -100,9 +100,12 @@ void write_ensight_step(const std::string& dir, int step, const FieldSnapshot& s
   write_element_variable(file_of(dir, "region_id", step), "region_id", s.order, {region});
   write_element_variable(file_of(dir, "side", step), "side (0 stator, 1 rotor, 2 band)", s.order,
                          {side});
+  if (!s.current_density.empty())
+    write_element_variable(file_of(dir, "J", step), "J (A/m2)", s.order, {s.current_density});
 }
 
-void write_ensight_case(const std::string& dir, const std::vector<std::pair<double, int>>& steps) {
+void write_ensight_case(const std::string& dir, const std::vector<std::pair<double, int>>& steps,
+                        bool current_density) {
   const std::string stem = "fields/ensight/";
   std::string text =
       "FORMAT\ntype: ensight gold\n\nGEOMETRY\nmodel: 1 " + stem + "geometry.*****\n";
@@ -111,6 +114,7 @@ void write_ensight_case(const std::string& dir, const std::vector<std::pair<doub
   text += "vector per element: 1 B " + stem + "B.*****\n";
   for (const char* name : {"B_abs", "mu_r", "region_id", "side"})
     text += fmt::format("scalar per element: 1 {} {}{}.*****\n", name, stem, name);
+  if (current_density) text += "scalar per element: 1 J " + stem + "J.*****\n";
   text += fmt::format("\nTIME\ntime set: 1\nnumber of steps: {}\nfilename numbers:", steps.size());
   for (std::size_t i = 0; i < steps.size(); ++i)
     text += fmt::format("{}{}", i % 10 == 0 ? "\n" : " ", steps[i].second);

@@ -15,7 +15,8 @@ double angle_of(const Vec2& p) {
 }  // namespace
 
 FieldSnapshot make_field_snapshot(const Assembler& assembler, const Eigen::VectorXd& x,
-                                  const Mesh& mesh, const ElementFields& fields) {
+                                  const Mesh& mesh, const ElementFields& fields,
+                                  const std::vector<double>* current_density) {
   const SectorSymmetry& sym = mesh.symmetry;
   const double sector = sym.sectors > 1 ? sym.sector_angle_rad : 0.0;
   FieldSnapshot s;
@@ -32,6 +33,7 @@ FieldSnapshot make_field_snapshot(const Assembler& assembler, const Eigen::Vecto
     s.b_tesla.push_back(sign * (turn * fields.b_tesla[e]));
     s.b_abs_tesla.push_back(fields.b_abs_tesla[e]);
     s.mu_r.push_back(fields.mu_r_differential[e]);
+    if (current_density) s.current_density.push_back(sign * (*current_density)[e]);
     const MeshRegion& region = mesh.regions[rec.region];
     s.region_id.push_back(region.id);
     s.side.push_back(region.tag.kind == RegionKind::moving_band ? 2

@@ -146,6 +146,7 @@ void write_fields_vtu(const std::string& path, const FieldSnapshot& s) {
   add_cell("By", by);
   add_cell("B_abs", s.b_abs_tesla);
   add_cell("mu_r", s.mu_r);
+  if (!s.current_density.empty()) add_cell("J", s.current_density);
   vtkNew<vtkIntArray> region;
   region->SetName("region_id");
   for (int r : s.region_id) region->InsertNextValue(r);

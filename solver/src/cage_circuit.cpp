@@ -28,8 +28,7 @@ Eigen::MatrixXd bar_coupling(const Assembler& assembler, const std::vector<int>&
 CageCircuit::CageCircuit(const CageParameters& cage, Eigen::MatrixXd coupling,
                          std::vector<double> bar_area_m2, TimeScheme scheme)
     : cage_(cage), c_(std::move(coupling)), area_m2_(std::move(bar_area_m2)), scheme_(scheme) {
-  if (cage_.bars < 1 || c_.cols() != cage_.bars ||
-      static_cast<int>(area_m2_.size()) != cage_.bars)
+  if (cage_.bars < 1 || c_.cols() != cage_.bars || static_cast<int>(area_m2_.size()) != cage_.bars)
     throw std::invalid_argument("a cage needs its bars' coupling and areas");
   if (!(cage_.conductivity_s_per_m > 0.0) || !(cage_.stack_length_m > 0.0))
     throw std::invalid_argument("a cage needs a conductivity and a stack length");
@@ -39,9 +38,9 @@ void CageCircuit::set_history(const std::vector<Eigen::VectorXd>& x_newest_first
                               const std::vector<Eigen::VectorXd>& ring_newest_first) {
   x_history_.assign(x_newest_first.begin(),
                     x_newest_first.begin() + std::min<std::size_t>(2, x_newest_first.size()));
-  ring_history_.assign(ring_newest_first.begin(),
-                       ring_newest_first.begin() +
-                           std::min<std::size_t>(2, ring_newest_first.size()));
+  ring_history_.assign(
+      ring_newest_first.begin(),
+      ring_newest_first.begin() + std::min<std::size_t>(2, ring_newest_first.size()));
   while (ring_history_.size() < x_history_.size())
     ring_history_.push_back(Eigen::VectorXd::Zero(cage_.bars));
 }
@@ -119,8 +118,8 @@ void CageCircuit::finish_step(const LowRankTerm& term, const Eigen::VectorXd& x,
   last_.bar_voltage_v = u;
   last_.bar_current_a = Eigen::VectorXd(cage_.bars);
   for (int k = 0; k < cage_.bars; ++k)
-    last_.bar_current_a[k] = sigma * area_m2_[k] / ell * u[k] -
-                             sigma * rho * c_.col(k).dot(x - x_h_);
+    last_.bar_current_a[k] =
+        sigma * area_m2_[k] / ell * u[k] - sigma * rho * c_.col(k).dot(x - x_h_);
   last_.ring_current_a = (2.0 * l * h_ir / dt_s - incidence().transpose() * u) / (2.0 * z);
   last_x_h_ = x_h_;
   last_rate_ = rho;
@@ -144,8 +143,8 @@ BarFieldResult bar_field(const Assembler& assembler, const std::vector<int>& bar
                       ? bar_of_region[rec.region]
                       : -1;
     if (k < 0) continue;
-    const LocalVector a = assembler.local_values(e, x) -
-                          assembler.local_values(e, cage.last_history());
+    const LocalVector a =
+        assembler.local_values(e, x) - assembler.local_values(e, cage.last_history());
     const auto density = [&](double xi, double eta) {
       shape_values(rec.nodes.order, xi, eta, values);
       double da = 0.0;

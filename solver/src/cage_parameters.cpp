@@ -52,7 +52,8 @@ CageValues cage_values(const Case& c, const Lamination& lam, const RegionMateria
     const double tolerance = 1e-9;
     if (inner > bottom + tolerance || outer < top - tolerance)
       throw c.sources.error(
-          ring.mean_diameter_m > 0.0 ? "rotor.ring.mean_diameter_mm" : "rotor.ring.radial_height_mm",
+          ring.mean_diameter_m > 0.0 ? "rotor.ring.mean_diameter_mm"
+                                     : "rotor.ring.radial_height_mm",
           fmt::format("the ring (radius {:.2f} to {:.2f} mm) does not reach over the bar ends "
                       "(radius {:.2f} to {:.2f} mm)",
                       inner / mm, outer / mm, bottom / mm, top / mm));

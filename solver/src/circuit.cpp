@@ -67,12 +67,13 @@ Eigen::MatrixXd coil_coupling(const Assembler& assembler, const CoilRegions& coi
 }
 
 WindingCircuit::WindingCircuit(Connection connection, BranchImpedance z, TimeScheme scheme,
-                               double linkage_scale)
+                               double linkage_scale, SupplySpec supply)
     : connection_(connection),
       t_(loop_to_branch(connection)),
       z_(z),
       scheme_(scheme),
-      scale_(linkage_scale) {
+      scale_(linkage_scale),
+      supply_(std::move(supply)) {
   if (!(z.resistance_ohm > 0.0) && !(z.end_inductance_h > 0.0))
     throw std::invalid_argument("a voltage-fed winding needs a resistance or an inductance");
 }
@@ -136,6 +137,14 @@ WindingCircuit::StepResult WindingCircuit::finish_step(const LowRankTerm& term,
   history_.insert(history_.begin(), linkage);
   if (history_.size() > 2) history_.pop_back();
   return r;
+}
+
+LowRankTerm WindingCircuit::step_term(double t_s, double dt_s) const {
+  return step_term(coupling_, branch_source_voltages_v(supply_, t_s), dt_s);
+}
+
+void WindingCircuit::finish_step(const LowRankTerm& term, const Eigen::VectorXd& x, double dt_s) {
+  last_ = finish_step(term, coupling_, x, dt_s);
 }
 
 Eigen::Vector3cd positive_sequence_amplitudes(const Triple& x) {

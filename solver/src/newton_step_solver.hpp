@@ -37,7 +37,7 @@ class NewtonStepSolver {
   SparseCholesky& cholesky_;
   const LowRankTerm* low_rank_;  // null or with columns
   bool has_factor_ = false;
-  Eigen::MatrixXd y_;                         // F⁻¹B
+  Eigen::MatrixXd y_;                              // F⁻¹B
   Eigen::FullPivLU<Eigen::MatrixXd> capacitance_;  // M⁻¹ + BᵀF⁻¹B
   Eigen::VectorXd r_, z_, p_, q_;
 };

@@ -72,9 +72,9 @@ enum class BarCurrents { induced, imposed };
 // The end rings (both alike): their cross-section and mean diameter, or each segment's values
 // given directly (0 where not given: estimated from the dimensions; docs/case-file.md).
 struct EndRingSpec {
-  double mean_diameter_m = 0.0;     // 0: through the middle of the bars
-  double radial_height_m = 0.0;     // 0: the bars' radial height
-  double axial_width_m = 0.0;       // 0: for the bars' current density (common practice)
+  double mean_diameter_m = 0.0;         // 0: through the middle of the bars
+  double radial_height_m = 0.0;         // 0: the bars' radial height
+  double axial_width_m = 0.0;           // 0: for the bars' current density (common practice)
   double segment_resistance_ohm = 0.0;  // > 0: given, instead of from the dimensions
   double segment_inductance_h = -1.0;   // ≥ 0: given; < 0: estimated
 };

@@ -13,10 +13,13 @@
 namespace gapflux {
 
 // Writes fields/ensight/<name>.<step, 5 digits> for the geometry and the variables A (per node),
-// B (vector per element), B_abs, mu_r, region_id and side (per element). `dir` is the run folder.
+// B (vector per element), B_abs, mu_r, region_id and side (per element), and J when the snapshot
+// has it. `dir` is the run folder.
 void write_ensight_step(const std::string& dir, int step, const FieldSnapshot& snapshot);
 
-// (Re)writes DIR/fields.case for the snapshots written so far: (time, step) pairs.
-void write_ensight_case(const std::string& dir, const std::vector<std::pair<double, int>>& steps);
+// (Re)writes DIR/fields.case for the snapshots written so far: (time, step) pairs;
+// `current_density`: the steps carry J.
+void write_ensight_case(const std::string& dir, const std::vector<std::pair<double, int>>& steps,
+                        bool current_density = false);
 
 }  // namespace gapflux

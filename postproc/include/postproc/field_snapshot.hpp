@@ -14,7 +14,10 @@
 
 namespace gapflux {
 
+// `current_density`: per assembler element, the induced current density in the bars (A/m²; the
+// snapshot then carries a cell array "J"), or null.
 FieldSnapshot make_field_snapshot(const Assembler& assembler, const Eigen::VectorXd& x,
-                                  const Mesh& mesh, const ElementFields& fields);
+                                  const Mesh& mesh, const ElementFields& fields,
+                                  const std::vector<double>* current_density = nullptr);
 
 }  // namespace gapflux

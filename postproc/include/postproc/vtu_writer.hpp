@@ -27,7 +27,8 @@ namespace gapflux {
 
 // One field snapshot as drawn: per element its nodes' drawn positions, A at every node as point
 // data "A" (Wb/m), and per cell "Bx", "By", "B_abs" (T), "mu_r" (differential relative
-// permeability), "region_id", "side" (0 stator, 1 rotor, 2 band). Built by make_field_snapshot
+// permeability), "region_id", "side" (0 stator, 1 rotor, 2 band) and, with an induced cage, "J"
+// (A/m², the bars' current density; 0 elsewhere). Built by make_field_snapshot
 // (field_snapshot.hpp).
 struct FieldSnapshot {
   int order = 2;
@@ -36,6 +37,8 @@ struct FieldSnapshot {
   std::vector<Vec2> b_tesla;
   std::vector<double> b_abs_tesla, mu_r;
   std::vector<int> region_id, side;
+  std::vector<double>
+      current_density;  // "J" (A/m², along +z), when the bars carry induced currents
 };
 void write_fields_vtu(const std::string& path, const FieldSnapshot& snapshot);
 

@@ -42,8 +42,8 @@ Eigen::MatrixXd bar_coupling(const Assembler& assembler, const std::vector<int>&
 
 class CageCircuit : public CoupledCircuit {
  public:
-  CageCircuit(const CageParameters& cage, Eigen::MatrixXd coupling,
-              std::vector<double> bar_area_m2, TimeScheme scheme);
+  CageCircuit(const CageParameters& cage, Eigen::MatrixXd coupling, std::vector<double> bar_area_m2,
+              TimeScheme scheme);
 
   // The field and ring currents of the last steps, newest first (one or two): a start sets the
   // field the bars are switched on in, with ring currents of zero.
@@ -52,6 +52,7 @@ class CageCircuit : public CoupledCircuit {
   // The difference formula of the next step: ∂x/∂t ≈ rate·(x − x_h).
   double rate(double dt_s) const;
   const Eigen::VectorXd& eddy_history() const { return x_h_; }  // x_h, after prepare()
+  const Eigen::VectorXd& newest_history() const { return x_history_.front(); }
   // Sets x_h for the next step (call before building the step's RegionModel).
   void prepare(double dt_s);
 

@@ -19,6 +19,7 @@
 
 #include "cases/case.hpp"
 #include "solver/assembly.hpp"
+#include "solver/coupled_circuit.hpp"
 #include "solver/newton.hpp"
 #include "solver/winding_sources.hpp"
 
@@ -48,10 +49,12 @@ struct BranchImpedance {
 };
 
 // The winding's circuit through the time steps: it keeps the earlier total linkages Λ that the
-// difference formula needs.
-class WindingCircuit {
+// difference formula needs. As a coupled circuit it takes the supply and, at each step, the
+// coupling of the step's system (attach()).
+class WindingCircuit : public CoupledCircuit {
  public:
-  WindingCircuit(Connection connection, BranchImpedance z, TimeScheme scheme, double linkage_scale);
+  WindingCircuit(Connection connection, BranchImpedance z, TimeScheme scheme, double linkage_scale,
+                 SupplySpec supply = {});
   // History: the total linkages of the last steps, newest first (one or two).
   void set_history(const std::vector<Triple>& newest_first);
   // The eliminated loop equations of the step, as the Newton solver's low-rank term.
@@ -65,6 +68,13 @@ class WindingCircuit {
   // After the field is solved: the step's currents and voltages; the step enters the history.
   StepResult finish_step(const LowRankTerm& term, const Eigen::MatrixXd& coupling,
                          const Eigen::VectorXd& x, double dt_s);
+
+  // As a coupled circuit: the coupling of the step's system, then the two calls below.
+  void attach(Eigen::MatrixXd coupling) { coupling_ = std::move(coupling); }
+  const Eigen::MatrixXd& coupling() const { return coupling_; }
+  LowRankTerm step_term(double t_s, double dt_s) const override;
+  void finish_step(const LowRankTerm& term, const Eigen::VectorXd& x, double dt_s) override;
+  const StepResult& last() const { return last_; }
   bool second_order_next() const;  // BDF2 with two history values
   Connection connection() const { return connection_; }
   const Eigen::MatrixXd& t() const { return t_; }
@@ -79,6 +89,9 @@ class WindingCircuit {
   BranchImpedance z_;
   TimeScheme scheme_;
   double scale_;
+  SupplySpec supply_;
+  Eigen::MatrixXd coupling_;
+  StepResult last_;
   std::vector<Triple> history_;  // newest first, at most two
 };
 
