@@ -111,6 +111,45 @@ void print_saturation_table(std::FILE* out, const SaturationMap& s) {
   }
 }
 
+void print_cage_and_power(std::FILE* out, const RunSummary& s) {
+  if (s.cage) {
+    const CageAnalysis& c = s.cage->analysis;
+    fmt::print(out,
+               "  cage (induced, {:g} °C): bar current {:.1f} A RMS (forward wave {:.1f} A at "
+               "{:.3g} Hz, backward {:.1f} A at {:.3g} Hz), ring segments {:.1f} A ({:.3f} × the "
+               "bars; a balanced set gives {:.3f})\n",
+               s.cage->temperature_c, c.bar_rms_a, c.forward_bar_rms_a, c.forward_hz,
+               c.backward_bar_rms_a, c.backward_hz, c.ring_rms_a, c.ring_to_bar,
+               c.ring_to_bar_balanced);
+    fmt::print(out,
+               "  cage loss {:.1f} W (bars {:.1f}, rings {:.1f}): forward field {:.1f} W, "
+               "backward {:.1f} W, the rest (harmonics, start) {:.1f} W\n",
+               c.loss_w, c.loss_bars_w, c.loss_rings_w, c.loss_forward_w, c.loss_backward_w,
+               c.loss_rest_w);
+  }
+  if (s.power) {
+    const PowerBalance& p = *s.power;
+    fmt::print(out,
+               "  power: input {:.1f} W, stator copper {:.1f} W, cage {:.1f} W, air gap {:.1f} W "
+               "(fundamental {:.1f} W, s times that {:.1f} W at slip {:.4f}), mechanical {:.1f} "
+               "W; balance off by {:.2f} % of the input\n",
+               p.input_w, p.copper_w, p.cage_w, p.airgap_w, p.fundamental_airgap_w,
+               p.slip_times_fundamental_w, p.slip, p.mechanical_w, p.balance_residual_pct);
+    fmt::print(out,
+               "  efficiency {:.2f} % (iron loss estimate {:.1f} W included; no friction, windage "
+               "or stray load loss), power factor {:.3f} (arithmetic), {:.3f} (positive-sequence "
+               "displacement)\n",
+               p.efficiency_pct, p.iron_w, p.power_factor, p.displacement_factor);
+  }
+  if (s.negative_sequence_impedance_ohm)
+    fmt::print(out,
+               "  negative-sequence impedance V2/I2 = {:.3f} Ω at {:.1f}°; current unbalance "
+               "{:.2f} × the voltage unbalance; 2f torque {:.3f} N·m\n",
+               std::abs(*s.negative_sequence_impedance_ohm),
+               std::arg(*s.negative_sequence_impedance_ohm) * 180.0 / std::numbers::pi,
+               s.unbalance_amplification, s.torque_2f_nm);
+}
+
 void print_baseline_table(std::FILE* out, const BaselineComparison& c) {
   const auto pct = [](double run, double base) {
     return base != 0.0 ? 100.0 * (run - base) / std::abs(base) : 0.0;

@@ -7,6 +7,7 @@
 #include "postproc/baseline.hpp"
 #include "postproc/run_analysis.hpp"
 #include "postproc/saturation.hpp"
+#include "postproc/summary.hpp"
 
 namespace gapflux {
 
@@ -17,6 +18,9 @@ void print_analysis_table(std::FILE* out, const RunAnalysis& a, double torque_me
 void print_saturation_table(std::FILE* out, const SaturationMap& s);
 
 // The run against its balanced baseline: losses, torque, the zones and waves that grew.
+// The cage's currents and losses and the power balance, when the run has them.
+void print_cage_and_power(std::FILE* out, const RunSummary& s);
+
 void print_baseline_table(std::FILE* out, const BaselineComparison& c);
 
 }  // namespace gapflux

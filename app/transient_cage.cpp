@@ -3,6 +3,8 @@
 // the rows each step adds to results.h5.
 #include <fmt/format.h>
 
+#include <cmath>
+
 #include "transient_study.hpp"
 
 namespace gapflux {
@@ -42,6 +44,35 @@ void TransientStudy::start_cage(MagnetostaticSystem& system, const RegionModel& 
   // cage's own transient then decays with the rotor's time constant.
   if (!circuit_) system.solve(model, settings);
   cage_->set_history({system.x()}, {});
+  // What the cage is, once per run: its circuit values and its bar triangles' areas.
+  const CageParameters& c = cage_values_.circuit;
+  h5_->write("cage/bar_triangle_area", bar_triangle_areas(), "m^2");
+  h5_->write("cage/ring_segment",
+             std::vector<double>{c.ring_segment_resistance_ohm, c.ring_segment_inductance_h},
+             "ohm, H");
+  h5_->attribute("cage/ring_segment", "conductivity_s_per_m",
+                 cage_values_.ring_conductivity_s_per_m);
+  h5_->attribute("cage/ring_segment", "resistance_given",
+                 static_cast<long>(cage_values_.resistance_given));
+  h5_->attribute("cage/ring_segment", "inductance_given",
+                 static_cast<long>(cage_values_.inductance_given));
+  h5_->attribute("cage/bar_triangle_area", "bar_conductivity_s_per_m", c.conductivity_s_per_m);
+  h5_->attribute("cage/bar_triangle_area", "temperature_c", cage_values_.temperature_c);
+}
+
+std::vector<double> TransientStudy::bar_triangle_areas() const {
+  std::vector<double> out;
+  const int per = mesh_.nodes_per_triangle();
+  for (std::size_t t = 0; t < mesh_.n_triangles(); ++t) {
+    if (bar_of_region_[mesh_.triangle_region[t]] < 0) continue;
+    const Vec2 a = mesh_.nodes[mesh_.triangles[t * per]],
+               b = mesh_.nodes[mesh_.triangles[t * per + 1]],
+               c = mesh_.nodes[mesh_.triangles[t * per + 2]];
+    // Straight-sided area: bars are meshed finely enough that the curved edges' share is small;
+    // it only weighs the loss shares, not the cage loss itself.
+    out.push_back(0.5 * std::abs((b - a).x() * (c - a).y() - (b - a).y() * (c - a).x()));
+  }
+  return out;
 }
 
 void TransientStudy::add_eddy_currents(RegionModel& model) const {
@@ -67,6 +98,11 @@ void TransientStudy::write_cage_step(const MagnetostaticSystem& system) {
   h5_->append_row("steps/bar_voltage", row(r.bar_voltage_v), "V");
   h5_->append_row("steps/ring_current", row(r.ring_current_a), "A");
   h5_->append_row("steps/cage_loss", {sectors * bars.loss_w, ring_w}, "W");
+  // The bar triangles' current density (mesh triangles come first among the elements).
+  std::vector<double> density;
+  for (std::size_t t = 0; t < mesh_.n_triangles(); ++t)
+    if (bar_of_region_[mesh_.triangle_region[t]] >= 0) density.push_back(bar_density_[t]);
+  h5_->append_row("steps/bar_density", density, "A/m^2");
 }
 
 }  // namespace gapflux

@@ -400,6 +400,7 @@ void TransientStudy::finish(const std::string& failure) {
     s.end_winding_estimated = r.end_winding_estimated;
     s.conductor_temperature_c = r.temperature_c;
   }
+  cage_and_power_summary(s, done);
   s.torque_harmonics.clear();
   for (const TorqueHarmonic& t : s.analysis->torque_harmonics)
     s.torque_harmonics.emplace_back(t.order, t.amplitude_nm);
@@ -435,6 +436,7 @@ void TransientStudy::finish(const std::string& failure) {
         s.steady_state->reached ? "within" : "NOT within", s.steady_state->tolerance_pct);
   print_analysis_table(stdout, *s.analysis, s.torque_mean_nm, s.torque_ripple_pct);
   if (s.saturation) print_saturation_table(stdout, *s.saturation);
+  print_cage_and_power(stdout, s);
   if (s.losses_available)
     fmt::print(
         "  losses over the last period: iron stator {:.1f} W, rotor {:.1f} W (Steinmetz/"

@@ -75,6 +75,9 @@ class TransientStudy {
                   const NewtonSettings& settings);
   void add_eddy_currents(RegionModel& model) const;
   void write_cage_step(const MagnetostaticSystem& system);  // rows of steps/ and bar_density_
+  std::vector<double> bar_triangle_areas() const;
+  // The cage's currents and losses and the power balance over the analysis window.
+  void cage_and_power_summary(RunSummary& s, int done) const;
   // Peak |B| and time over the threshold per triangle over the last period, written to
   // results.h5 (saturation/) and saturation.vtu.
   // `b_rows`: steps/B as read (the finished steps' rows).

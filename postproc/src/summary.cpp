@@ -202,10 +202,12 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
         {"end_winding_inductance_h", s.end_inductance_h},
         {"end_winding_inductance_estimated", s.end_inductance_estimated},
         {"model",
-         "v = R·i + L_end·di/dt + dψ/dt per winding branch, ψ from the field, solved with it at "
-         "every step; the rotor cage's own induced currents are not modelled (imposed bar "
-         "currents only), so the backward field and the negative-sequence currents are not "
-         "damped as a real cage damps them"}};
+         s.cage ? "v = R·i + L_end·di/dt + dψ/dt per winding branch, ψ from the field, solved "
+                  "with the field and the cage's induced currents at every step"
+                : "v = R·i + L_end·di/dt + dψ/dt per winding branch, ψ from the field, solved "
+                  "with it at every step; the bars carry no induced currents here (a smooth "
+                  "rotor, or bar currents imposed), so the backward field and the "
+                  "negative-sequence currents are not damped as a real cage damps them"}};
   if (s.steady_state) {
     const SteadyStateIndicator& ss = *s.steady_state;
     j["steady_state"] = {
@@ -238,11 +240,86 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
         {"ripple_pct", s.torque_ripple_pct}, {"harmonics", harmonics},
         {"method", "Arkkio band integral"}};
   }
+  if (s.cage) {
+    const CageAnalysis& c = s.cage->analysis;
+    j["cage"] = {
+        {"currents", "induced"},
+        {"temperature_c", s.cage->temperature_c},
+        {"bar_conductivity_s_per_m", s.cage->bar_conductivity_s_per_m},
+        {"ring_segment_resistance_ohm", s.cage->ring_segment_resistance_ohm},
+        {"ring_segment_resistance",
+         s.cage->ring_resistance_given ? "given" : "from the dimensions"},
+        {"ring_segment_inductance_h", s.cage->ring_segment_inductance_h},
+        {"ring_segment_inductance",
+         s.cage->ring_inductance_given ? "given" : "estimated (rough: μ0·0.3·segment length)"},
+        {"ring_mean_diameter_m", s.cage->ring_mean_diameter_m},
+        {"ring_area_m2", s.cage->ring_area_m2},
+        {"bar_rms_a", c.bar_rms_a},
+        {"ring_rms_a", c.ring_rms_a},
+        {"ring_to_bar", c.ring_to_bar},
+        {"ring_to_bar_balanced", c.ring_to_bar_balanced},
+        {"forward",
+         {{"frequency_hz", c.forward_hz},
+          {"bar_rms_a", c.forward_bar_rms_a},
+          {"loss_w", c.loss_forward_w}}},
+        {"backward",
+         {{"frequency_hz", c.backward_hz},
+          {"bar_rms_a", c.backward_bar_rms_a},
+          {"loss_w", c.loss_backward_w}}},
+        {"loss_w", c.loss_w},
+        {"loss_bars_w", c.loss_bars_w},
+        {"loss_rings_w", c.loss_rings_w},
+        {"loss_rest_w", c.loss_rest_w},
+        {"over", "the analysis window"},
+        {"loss_model",
+         "bars: ∫ J²/σ over the FE current density (skin and slot effects included); rings: "
+         "R·i² per segment, both rings; the forward and backward shares from the two waves' "
+         "frequencies fitted to each bar triangle and ring segment; the rest is harmonics and "
+         "what is left of the start"}};
+  }
+  if (s.power) {
+    const PowerBalance& p = *s.power;
+    j["power"] = {
+        {"slip", p.slip},
+        {"input_w", p.input_w},
+        {"stator_copper_w", p.copper_w},
+        {"cage_w", p.cage_w},
+        {"airgap_w", p.airgap_w},
+        {"slip_times_airgap_w", p.slip_times_airgap_w},
+        {"fundamental_torque_nm", p.fundamental_torque_nm},
+        {"fundamental_airgap_w", p.fundamental_airgap_w},
+        {"slip_times_fundamental_airgap_w", p.slip_times_fundamental_w},
+        {"mechanical_w", p.mechanical_w},
+        {"iron_estimate_w", p.iron_w},
+        {"balance_residual_pct", p.balance_residual_pct},
+        {"efficiency_pct", p.efficiency_pct},
+        {"power_factor", p.power_factor},
+        {"displacement_factor", p.displacement_factor},
+        {"over", "the analysis window"},
+        {"definitions",
+         "input Σ⟨v·i⟩ over the winding branches; air gap T·Ω_sync; mechanical T·Ω_rotor; the "
+         "balance compares the input with stator copper + cage + mechanical (the FE iron is "
+         "lossless); efficiency = mechanical / (input + iron estimate), no friction, windage or "
+         "stray load loss; power_factor = input / Σ V·I (RMS per branch); displacement_factor = "
+         "cos(∠V1 − ∠I1) of the positive sequences"}};
+    if (s.torque_2f_nm > 0) j["torque"]["twice_supply_frequency_nm"] = s.torque_2f_nm;
+  }
+  if (s.negative_sequence_impedance_ohm) {
+    const std::complex<double> z = *s.negative_sequence_impedance_ohm;
+    j["supply"]["negative_sequence_impedance"] = {
+        {"ohm", std::abs(z)},
+        {"angle_deg", std::arg(z) * 180.0 / 3.14159265358979323846},
+        {"resistance_ohm", z.real()},
+        {"reactance_ohm", z.imag()},
+        {"definition", "V2/I2 of the fundamental phase voltages and line currents"}};
+    j["supply"]["unbalance_amplification"] = s.unbalance_amplification;
+  }
   j["rotor_currents"] = {
       {"bar_rms_a", s.bar_rms_a},
-      {"note", s.bar_rms_a > 0 ? "imposed on the bars, not induced: the cage's own "
-                                 "currents are not modelled"
-                               : "none: the cage's own currents are not modelled"}};
+      {"note", s.cage            ? "induced: the cage's currents follow from the field (see cage)"
+               : s.bar_rms_a > 0 ? "imposed on the bars, not induced (rotor.bar_currents = "
+                                   "\"imposed\")"
+                                 : "none: a smooth rotor, or a static study"}};
   j["supply"]["form"] = s.supply_form;
   j["supply"]["frequency_detected"] = s.frequency_detected;
   if (s.analysis) {
@@ -361,23 +438,35 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                      "editions of those standards. Both refer to voltage unbalance at the "
                      "terminals; ") +
              (b.voltage_fed
-                  ? "this voltage-fed run reports it (supply.unbalance), but without the cage's "
-                    "induced currents the added losses here miss the rotor's negative-sequence "
-                    "share, which dominates the derating in a real motor."
+                  ? "this voltage-fed run reports it (supply.unbalance); compare its cage loss and "
+                    "efficiency with the baseline's (losses above), which is what the derating "
+                    "protects."
                   : "a current-fed run reports current unbalance, so compare losses, not the "
                     "percentages.")},
         {"caution",
          "Derating and protection decisions follow the standards, local codes, the motor's maker "
          "and licensed engineering practice, not these figures alone."}};
   }
+  std::string model;
+  if (s.cage)
+    model =
+        "Results come from a 2-D model of the field, the cage's induced currents (end rings "
+        "as lumped resistance and a rough leakage estimate) and, when voltage-fed, the "
+        "winding's circuit; end effects beyond the rings, skew, interbar currents and "
+        "temperature rise are not modelled, and the iron loss is a post-processed estimate.";
+  else if (s.voltage_fed)
+    model =
+        "Results come from a 2-D magnetostatic model of the field coupled with the winding's "
+        "circuit; the bars carry no induced currents in this run, so negative-sequence and "
+        "harmonic currents are far below what a cage motor would draw, and end effects, skew "
+        "and temperature rise are not modelled either.";
+  else
+    model =
+        "Results come from a 2-D magnetostatic model with imposed currents; the bars carry "
+        "no induced currents in this run, and end effects, skew and temperature rise are not "
+        "modelled.";
   j["cautions"] = {
-      s.voltage_fed
-          ? "Results come from a 2-D magnetostatic model of the field coupled with the winding's "
-            "circuit; the cage's own induced currents are not modelled, so negative-sequence and "
-            "harmonic currents are far below what the motor would draw (its cage would carry "
-            "them), and end effects, skew and temperature rise are not modelled either."
-          : "Results come from a 2-D magnetostatic model with imposed currents; the cage's own "
-            "induced currents, end effects, skew and temperature rise are not modelled.",
+      model,
       "Decisions on derating, protection settings or continued operation of a motor follow the "
       "applicable standards and local codes, the motor's maker and licensed engineering practice, "
       "not these figures alone."};

@@ -9,6 +9,8 @@
 
 #include "geometry/winding_layout.hpp"
 #include "postproc/baseline.hpp"
+#include "postproc/cage_analysis.hpp"
+#include "postproc/power_balance.hpp"
 #include "postproc/run_analysis.hpp"
 #include "postproc/saturation.hpp"
 
@@ -53,6 +55,21 @@ struct RunSummary {
   double conductor_temperature_c = 0.0;
   bool end_winding_estimated = false;
   std::optional<BaselineComparison> baseline;  // with --baseline
+  // The cage with induced currents, and the power balance over the analysis window.
+  struct CageInfo {
+    CageAnalysis analysis;
+    double temperature_c = 0.0, bar_conductivity_s_per_m = 0.0;
+    double ring_segment_resistance_ohm = 0.0, ring_segment_inductance_h = 0.0;
+    bool ring_resistance_given = false, ring_inductance_given = false;
+    double ring_mean_diameter_m = 0.0, ring_area_m2 = 0.0;
+  };
+  std::optional<CageInfo> cage;
+  std::optional<PowerBalance> power;
+  // A voltage feed's negative-sequence impedance V2/I2 (phase, fundamental; Ω, angle) and the
+  // current unbalance over the voltage unbalance.
+  std::optional<std::complex<double>> negative_sequence_impedance_ohm;
+  double unbalance_amplification = 0.0;
+  double torque_2f_nm = 0.0;
   // Voltage feed: the circuit and the approach to steady state.
   bool voltage_fed = false;
   std::string connection, time_scheme, voltage_basis;
