@@ -6,6 +6,7 @@
 #include <filesystem>
 #include <iostream>
 #include <numbers>
+#include <optional>
 
 #include "analysis_printout.hpp"
 #include "case_printout.hpp"
@@ -19,6 +20,7 @@
 #include "postproc/summary.hpp"
 #include "postproc/vtu_writer.hpp"
 #include "run_folder.hpp"
+#include "solver/cage_parameters.hpp"
 #include "solver/supply_currents.hpp"
 #include "solver/time_grid.hpp"
 #include "static_study.hpp"
@@ -33,13 +35,16 @@ struct Prepared {
   Lamination lamination;
   MeshSettings mesh_settings;
   TimeGrid grid;
+  std::optional<CageValues> cage;  // an induced cage's circuit values
 };
 
 Prepared prepare(const std::string& case_path) {
   Prepared p;
   p.c = read_case_file(case_path);
-  resolve_region_materials(p.c);
+  const RegionMaterials materials = resolve_region_materials(p.c);
   p.lamination = build_lamination(p.c);
+  if (p.c.rotor.kind == RotorKind::cage && p.c.rotor.bar_currents == BarCurrents::induced)
+    p.cage = cage_values(p.c, p.lamination, materials);
   p.mesh_settings = resolve_mesh_settings(p.c, p.lamination);
   if (p.c.study.kind == StudyKind::time_stepping)
     p.grid = make_time_grid(p.c, 2.0 * std::numbers::pi / p.mesh_settings.band_nodes);
@@ -53,6 +58,16 @@ Prepared prepare(const std::string& case_path) {
 int command_check(const std::string& case_path, const CommonOptions&) {
   const Prepared p = prepare(case_path);
   print_resolved_case(std::cout, p.c, p.lamination, p.mesh_settings);
+  if (p.cage)
+    fmt::print(
+        "# cage (induced currents) at {:g} °C: bars {:.4g} MS/m, {:.4g} µΩ each (DC); ring "
+        "segments {:.4g} µΩ ({}), {:.4g} nH ({}); rings {:.1f} mm mean diameter, {:.1f} mm²\n",
+        p.cage->temperature_c, p.cage->circuit.conductivity_s_per_m / 1e6,
+        p.cage->bar_dc_resistance_ohm * 1e6, p.cage->circuit.ring_segment_resistance_ohm * 1e6,
+        p.cage->resistance_given ? "given" : "from the ring's dimensions",
+        p.cage->circuit.ring_segment_inductance_h * 1e9,
+        p.cage->inductance_given ? "given" : "rough estimate", p.cage->ring_mean_diameter_m * 1e3,
+        p.cage->ring_area_m2 * 1e6);
   for (const std::string& w : p.c.warnings) fmt::print("warning: {}\n", w);
   for (const std::string& w : p.mesh_settings.forecast.warnings) fmt::print("warning: {}\n", w);
   if (p.c.study.kind == StudyKind::time_stepping)

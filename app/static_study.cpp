@@ -20,6 +20,7 @@
 #include "postproc/vtu_writer.hpp"
 #include "solver/newton_settings.hpp"
 #include "solver/region_model.hpp"
+#include "solver/rotor_currents.hpp"
 #include "solver/supply_currents.hpp"
 
 namespace gapflux {
@@ -81,7 +82,13 @@ void StaticStudy::set_up() {
   phase_current_a_ = supply_phase_currents_a(case_.supply, case_.study.time_s);
 
   coils_ = coil_regions(mesh_, lamination_.winding);
-  const std::vector<double> j = region_current_density(coils_, phase_current_a_);
+  std::vector<double> j = region_current_density(coils_, phase_current_a_);
+  // Imposed bar currents at the instant (rotor.bar_currents = "imposed"); induced ones need time
+  // to be induced, so a static study's bars carry none (summary.json says which).
+  const std::vector<double> bars =
+      bar_current_density(mesh_, case_, lamination_.winding, lamination_.bars, case_.study.time_s,
+                          case_.study.rotor_angle_rad);
+  for (std::size_t r = 0; r < j.size(); ++r) j[r] += bars[r];
   model_ = make_region_model(mesh_, materials_, j);
 }
 

@@ -316,10 +316,13 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
   }
   j["rotor_currents"] = {
       {"bar_rms_a", s.bar_rms_a},
-      {"note", s.cage            ? "induced: the cage's currents follow from the field (see cage)"
-               : s.bar_rms_a > 0 ? "imposed on the bars, not induced (rotor.bar_currents = "
-                                   "\"imposed\")"
-                                 : "none: a smooth rotor, or a static study"}};
+      {"note",
+       s.cage ? "induced: the cage's currents follow from the field (see cage)"
+       : s.bar_rms_a > 0
+           ? "imposed on the bars, not induced (rotor.bar_currents = \"imposed\")"
+           : (s.time_stepping ? "none: a smooth rotor"
+                              : "none: a static study has no time for currents to be "
+                                "induced (rotor.bar_currents = \"imposed\" imposes a set)")}};
   j["supply"]["form"] = s.supply_form;
   j["supply"]["frequency_detected"] = s.frequency_detected;
   if (s.analysis) {
