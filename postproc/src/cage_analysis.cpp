@@ -8,6 +8,7 @@ namespace gapflux {
 namespace {
 
 constexpr double pi = std::numbers::pi;
+using Basis = Eigen::Matrix<double, Eigen::Dynamic, 4>;
 
 double rms(const std::vector<std::vector<double>>& rows) {
   double sum = 0.0;
@@ -39,7 +40,9 @@ CageAnalysis analyse_cage(const CageRecord& r) {
 
   // The two bar-current waves by least squares over every bar and step.
   const std::size_t bars = r.bar_current_a.front().size();
-  Eigen::MatrixXd basis(steps * bars, 4);
+  // Four columns fixed at compile time: a QR on MatrixXd would share its symbols with the copy
+  // libgmsh exports and be interposed with it (a mismatched allocator under ASan).
+  Basis basis(steps * bars, 4);
   Eigen::VectorXd values(steps * bars);
   for (std::size_t n = 0; n < steps; ++n)
     for (std::size_t k = 0; k < bars; ++k) {
@@ -56,11 +59,11 @@ CageAnalysis analyse_cage(const CageRecord& r) {
   // The loss shares: each bar triangle's J fitted at the two frequencies (no constant: over a
   // window of whole supply periods a slow forward wave and a constant cannot be told apart),
   // and each ring segment's current likewise.
-  Eigen::MatrixXd t(steps, 4);
+  Basis t(steps, 4);
   for (std::size_t n = 0; n < steps; ++n)
     t.row(n) << std::cos(w_f * r.time_s[n]), std::sin(w_f * r.time_s[n]),
         std::cos(w_b * r.time_s[n]), std::sin(w_b * r.time_s[n]);
-  const Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr(t);
+  const Eigen::ColPivHouseholderQR<Basis> qr(t);
   Eigen::VectorXd series(steps);
   if (!r.bar_density.empty() && r.conductivity_s_per_m > 0) {
     const double scale = r.stack_length_m * r.sectors / (2.0 * r.conductivity_s_per_m);

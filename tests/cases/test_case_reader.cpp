@@ -19,7 +19,7 @@ TEST_CASE("demo case reads with SI units and documented defaults", "[cases]") {
   const Case c = read_case_file(test::example("pump_4p36s.toml"));
   CHECK(c.machine.poles == 4);
   CHECK(c.machine.pole_pairs() == 2);
-  CHECK(c.machine.stack_length_m == Approx(0.150).epsilon(1e-15));
+  CHECK(c.machine.stack_length_m == Approx(0.200).epsilon(1e-15));
   CHECK(c.stator.bore_diameter_m == Approx(0.136).epsilon(1e-15));
   CHECK(c.stator.slot.shape == SlotShape::semi_closed);
   CHECK(c.stator.slot.wedge_angle_rad == Approx(25.0 * std::numbers::pi / 180.0));
@@ -28,7 +28,7 @@ TEST_CASE("demo case reads with SI units and documented defaults", "[cases]") {
   // Balanced phases by default: b lags a by 120°, c by 240° (design.md §4).
   CHECK(c.supply.phases[1].angle_rad == Approx(-2.0 * std::numbers::pi / 3.0));
   CHECK(c.supply.phases[2].angle_rad == Approx(-4.0 * std::numbers::pi / 3.0));
-  CHECK(c.supply.phases[2].rms == Approx(6.5));
+  CHECK(c.supply.phases[2].rms == Approx(9.0));
   CHECK(c.mesh.band_nodes == 2016);
   CHECK(c.mesh.growth_rate == Approx(0.2));
 }
@@ -64,7 +64,7 @@ TEST_CASE("per-phase supply overrides keep the other phases balanced", "[cases]"
   text.replace(text.find("feed = \"current\""), 16,
                "feed = \"current\"\nconnection = \"star_neutral\"");
   const Case c = read_case_text(text, "inline.toml");
-  CHECK(c.supply.phases[0].rms == Approx(6.5));
+  CHECK(c.supply.phases[0].rms == Approx(9.0));
   CHECK(c.supply.phases[1].rms == Approx(23.1));
   CHECK(c.supply.phases[1].angle_rad == Approx(-2.0 * std::numbers::pi / 3.0));
   CHECK(c.supply.phases[2].angle_rad == Approx(-235.0 * std::numbers::pi / 180.0));
@@ -72,8 +72,8 @@ TEST_CASE("per-phase supply overrides keep the other phases balanced", "[cases]"
 
 TEST_CASE("integers are accepted where a number is asked for", "[cases]") {
   std::string text = test::read_text(test::example("pump_4p36s.toml"));
-  text.replace(text.find("stack_length_mm = 150.0"), 23, "stack_length_mm = 150");
-  CHECK(read_case_text(text, "inline.toml").machine.stack_length_m == Approx(0.15));
+  text.replace(text.find("stack_length_mm = 200.0"), 23, "stack_length_mm = 200");
+  CHECK(read_case_text(text, "inline.toml").machine.stack_length_m == Approx(0.2));
 }
 
 namespace {

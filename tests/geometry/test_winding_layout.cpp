@@ -59,8 +59,8 @@ TEST_CASE("36 slots, 4 poles, double layer, 7/9 pitch", "[geometry][winding]") {
   const WindingLayout w = layout(36, 4, 2, 7);
   check_factors(w, 3, 2 * 2 * pi / 36, 7.0 / 9.0);
   CHECK(w.factors[0].kw == Approx(0.959795 * 0.939693).epsilon(1e-5));
-  // Series turns: 2Q/3 coil sides per phase, two per coil, 12 turns, one path.
-  CHECK(w.series_turns_per_phase == Approx(24.0 / 2 * 12));
+  // Series turns: 2Q/3 coil sides per phase, two per coil, 9 turns, one path.
+  CHECK(w.series_turns_per_phase == Approx(24.0 / 2 * 9));
 }
 
 TEST_CASE("48 slots, 4 poles, double layer, 10/12 pitch", "[geometry][winding]") {

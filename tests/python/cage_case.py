@@ -1,7 +1,7 @@
 """Cage-motor cases for the Python checks: the invented pump motor of
 cases/examples/pump_4p36s_voltage.toml with its cage's currents induced, on a coarse first-order
 mesh. `linear` makes every iron linear (μr 1000) so that superposition and the fundamental's
-slip relation hold exactly; `resistive_bars` gives the bars a made-up conductivity about a thirtieth of
+slip relation hold exactly; `resistive_bars` gives the bars a made-up conductivity about a fiftieth of
 die-cast aluminium's so that the cage's start-up transient dies within a few periods (the
 relations checked hold for any resistance)."""
 import os
@@ -34,7 +34,7 @@ def cage_case(examples, path, slip, periods, steps_per_period=24, linear=True,
         defs += '[materials.define.linear_steel]\nkind = "steel"\nrelative_permeability = 1000.0\n'
     if resistive_bars:
         defs += ('[materials.define.resistive_alloy]\nkind = "conductor"\n'
-                 "conductivity_s_per_m = 1.0e6\ntemperature_coefficient_per_k = 0.0\n")
+                 "conductivity_s_per_m = 5.0e5\ntemperature_coefficient_per_k = 0.0\n")
     if materials:
         s = s.replace("[supply]", "[materials]\n" + materials + defs + "\n[supply]", 1)
     open(path, "w").write(s + extra)

@@ -9,19 +9,19 @@ mesh. Each check names its reference:
   air-gap power of the fundamental (the torque of space order p times Ω_sync; induction-machine
   theory, e.g. Pyrhönen, Jokinen, Hrabovcová ch. 7, from memory), within 1 % (the two are
   computed from different parts of the solution: bar current densities and rings against the
-  airgap's Maxwell stress; 0.09 % measured);
+  airgap's Maxwell stress; 0.11 % measured);
 - the energy balance over a settled period: input = stator copper + cage loss + mechanical
   power (the FE iron is lossless; conservation of energy) within 0.5 % at 48 steps per period
-  (BDF2 itself dissipates about (ωΔt)³/4 of the reactive power: 0.3 % measured here, at a power
-  factor near 0.3);
+  (BDF2 itself dissipates about (ωΔt)³/4 of the reactive power: 0.33 % measured here, at a
+  power factor near 0.3);
 - at small slips the torque is proportional to slip (s·f small against the rotor's R/L: the
   linear part of the torque–slip curve; induction-machine theory, common practice) — s = 0.01
-  and 0.02 within 3 % (2.04 measured: the rotor's leakage already bends the curve a little);
+  and 0.02 within 3 % (2.05 measured: the rotor's leakage already bends the curve a little);
 - a sector model and the full machine give the same torque and bar currents step by step
   (the field's antiperiodicity closes the cage's circuit; design.md §2) within 0.1 %;
 - with linear iron superposition holds, so the negative-sequence impedance V2/I2 of an
   unbalanced supply at slip s equals the positive-sequence impedance V1/I1 of a balanced supply
-  at slip 2 − s (sequence-circuit theory of the induction machine) within 2 % (0.006 %
+  at slip 2 − s (sequence-circuit theory of the induction machine) within 2 % (0.04 %
   measured).
 """
 import json
