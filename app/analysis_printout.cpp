@@ -159,6 +159,14 @@ void print_baseline_table(std::FILE* out, const BaselineComparison& c) {
              c.baseline_iron_w, pct(c.iron_w, c.baseline_iron_w));
   fmt::print(out, "  copper loss {:9.2f} W vs {:9.2f} W  ({:+.2f} %)\n", c.copper_w,
              c.baseline_copper_w, pct(c.copper_w, c.baseline_copper_w));
+  if (c.cage) {
+    fmt::print(out,
+               "  cage loss   {:9.2f} W vs {:9.2f} W  ({:+.2f} %; the backward field's share "
+               "{:.2f} W)\n",
+               c.cage_w, c.baseline_cage_w, pct(c.cage_w, c.baseline_cage_w), c.cage_backward_w);
+    fmt::print(out, "  efficiency  {:9.2f} % vs {:9.2f} %  ({:+.2f} points)\n", c.efficiency_pct,
+               c.baseline_efficiency_pct, c.efficiency_pct - c.baseline_efficiency_pct);
+  }
   fmt::print(out, "  total       {:9.2f} W vs {:9.2f} W  ({:+.2f} %)\n", c.total_w(),
              c.baseline_total_w(), pct(c.total_w(), c.baseline_total_w()));
   fmt::print(out, "  torque mean {:.4f} vs {:.4f} N·m, ripple {:.2f} % vs {:.2f} %\n",

@@ -98,7 +98,9 @@ void TransientStudy::cage_and_power_summary(RunSummary& s, int done) const {
 
   for (const TorqueHarmonic& t : s.analysis->torque_harmonics)
     if (std::abs(t.order - 2.0) < 1e-6) s.torque_2f_nm = t.amplitude_nm;
-  if (circuit_) {
+  // Only a supply with a measurable voltage unbalance (VUF above 0.01 %) has a negative-sequence
+  // impedance worth the name; a balanced bus's V2 and I2 are round-off.
+  if (circuit_ && s.analysis->voltage_unbalance.vuf_pct > 0.01) {
     // The negative-sequence impedance the supply meets: phase voltages over phase currents.
     const auto fundamental = [](const std::vector<HarmonicPhasors>& h) -> const HarmonicPhasors* {
       for (const HarmonicPhasors& x : h)
@@ -109,9 +111,8 @@ void TransientStudy::cage_and_power_summary(RunSummary& s, int done) const {
     const HarmonicPhasors* i1 = fundamental(s.analysis->line_current);
     if (v1 && i1 && std::abs(i1->sequences.negative) > 0)
       s.negative_sequence_impedance_ohm = v1->sequences.negative / i1->sequences.negative;
-    if (s.analysis->voltage_unbalance.vuf_pct > 0)
-      s.unbalance_amplification =
-          s.analysis->line_current_unbalance.vuf_pct / s.analysis->voltage_unbalance.vuf_pct;
+    s.unbalance_amplification =
+        s.analysis->line_current_unbalance.vuf_pct / s.analysis->voltage_unbalance.vuf_pct;
   }
 }
 

@@ -316,17 +316,46 @@ def main(out):
         ax.set_ylabel("peak |B| (T)")
         parts.append(figure_html(fig, "Peak |B| per stator tooth body"))
 
+    # The cage and the power balance.
+    if "cage" in s or "power" in s:
+        rows = []
+        c, pw = s.get("cage"), s.get("power")
+        if c:
+            rows += [["bar current", f'{c["bar_rms_a"]:.1f} A RMS: forward wave {c["forward"]["bar_rms_a"]:.1f} A at '
+                      f'{c["forward"]["frequency_hz"]:.3g} Hz, backward {c["backward"]["bar_rms_a"]:.1f} A at '
+                      f'{c["backward"]["frequency_hz"]:.3g} Hz'],
+                     ["ring segments", f'{c["ring_rms_a"]:.1f} A ({c["ring_to_bar"]:.3f} × the bars)'],
+                     ["cage loss", f'{c["loss_w"]:.1f} W (bars {c["loss_bars_w"]:.1f}, rings {c["loss_rings_w"]:.1f}): '
+                      f'forward field {c["forward"]["loss_w"]:.1f} W, backward {c["backward"]["loss_w"]:.1f} W, '
+                      f'rest {c["loss_rest_w"]:.1f} W'],
+                     ["cage temperature", f'{c["temperature_c"]:g} °C (a case value)']]
+        if pw:
+            rows += [["power", f'input {pw["input_w"]:.0f} W, stator copper {pw["stator_copper_w"]:.0f} W, cage '
+                      f'{pw["cage_w"]:.0f} W, mechanical {pw["mechanical_w"]:.0f} W at slip {pw["slip"]:.4f}'],
+                     ["efficiency", f'{pw["efficiency_pct"]:.2f} % (iron-loss estimate {pw["iron_estimate_w"]:.0f} W '
+                      "included; no friction, windage or stray load loss)"],
+                     ["power factor", f'{pw["power_factor"]:.3f} arithmetic, {pw["displacement_factor"]:.3f} '
+                      "positive-sequence displacement"]]
+        z2 = s["supply"].get("negative_sequence_impedance")
+        if z2:
+            rows.append(["negative sequence", f'V2/I2 = {z2["ohm"]:.3f} Ω at {z2["angle_deg"]:.1f}°; current '
+                         f'unbalance {s["supply"]["unbalance_amplification"]:.2f} × the voltage unbalance'])
+        parts.append("<h2>Cage and power</h2>" + table_html(["item", "value"], rows))
+
     # Losses, against the baseline when there is one.
     if "losses" in s:
         lo = s["losses"]
-        labels = ["iron, stator", "iron, rotor", "copper"]
-        run = [lo["iron_stator_w"], lo["iron_rotor_w"], lo["copper_w"]]
+        labels = ["iron, stator", "iron, rotor", "copper", "cage"]
+        cage_w = s.get("cage", {}).get("loss_w", 0.0)
+        run = [lo["iron_stator_w"], lo["iron_rotor_w"], lo["copper_w"], cage_w]
         fig, ax = plt.subplots(figsize=(6, 3))
-        x = np.arange(3)
+        x = np.arange(4)
         if "baseline" in s:
             bdir = s["baseline"]["dir"]
-            bs = json.load(open(os.path.join(bdir, "summary.json")))["losses"]
-            base = [bs["iron_stator_w"], bs["iron_rotor_w"], bs["copper_w"]]
+            bsum = json.load(open(os.path.join(bdir, "summary.json")))
+            bs = bsum["losses"]
+            base = [bs["iron_stator_w"], bs["iron_rotor_w"], bs["copper_w"],
+                    bsum.get("cage", {}).get("loss_w", 0.0)]
             ax.bar(x - 0.2, base, width=0.4, color=MUTED, label="balanced baseline")
             ax.bar(x + 0.2, run, width=0.4, color=ACCENT, label="this supply")
             ax.legend(frameon=False, fontsize=8)

@@ -16,6 +16,16 @@ BaselineComparison compare_with_baseline(const RunSummary& run, const RunSummary
   c.baseline_copper_w = base.copper_w;
   c.torque_mean_nm = run.torque_mean_nm;
   c.baseline_torque_mean_nm = base.torque_mean_nm;
+  if (run.cage && base.cage) {
+    c.cage = true;
+    c.cage_w = run.cage->analysis.loss_w;
+    c.baseline_cage_w = base.cage->analysis.loss_w;
+    c.cage_backward_w = run.cage->analysis.loss_backward_w;
+  }
+  if (run.power && base.power) {
+    c.efficiency_pct = run.power->efficiency_pct;
+    c.baseline_efficiency_pct = base.power->efficiency_pct;
+  }
   c.ripple_pct = run.torque_ripple_pct;
   c.baseline_ripple_pct = base.torque_ripple_pct;
   if (run.saturation && base.saturation) {

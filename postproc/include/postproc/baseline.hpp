@@ -26,12 +26,16 @@ struct BaselineComparison {
   double fundamental_rms = 0.0, fundamental_angle_deg = 0.0;
   bool voltage_fed = false;
   double iron_w = 0, baseline_iron_w = 0, copper_w = 0, baseline_copper_w = 0;
+  // With an induced cage: its loss (and the backward field's share), and the efficiency.
+  bool cage = false;
+  double cage_w = 0, baseline_cage_w = 0, cage_backward_w = 0;
+  double efficiency_pct = 0, baseline_efficiency_pct = 0;
   double torque_mean_nm = 0, baseline_torque_mean_nm = 0;
   double ripple_pct = 0, baseline_ripple_pct = 0;
   std::vector<ZoneChange> zones;       // every zone, largest increase first
   std::vector<AddedWave> added_waves;  // largest increases first, at most 10
-  double total_w() const { return iron_w + copper_w; }
-  double baseline_total_w() const { return baseline_iron_w + baseline_copper_w; }
+  double total_w() const { return iron_w + copper_w + cage_w; }
+  double baseline_total_w() const { return baseline_iron_w + baseline_copper_w + baseline_cage_w; }
 };
 
 struct RunSummary;
