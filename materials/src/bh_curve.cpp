@@ -126,9 +126,7 @@ double BHCurve::energy_density(double b) const {
   return energy_at_[i] + 0.5 * half * (h(mid - g * half) + h(mid + g * half));
 }
 
-double BHCurve::knee_tesla() const {
-  // Largest differential permeability over the table, then the first B above it where the
-  // differential permeability has fallen below a tenth of that.
+double BHCurve::steepest_b() const {
   double best = 0.0;
   std::size_t at = 0;
   for (std::size_t i = 0; i < b_.size(); ++i)
@@ -136,20 +134,21 @@ double BHCurve::knee_tesla() const {
       best = 1.0 / slope_[i];
       at = i;
     }
-  for (double b = b_[at]; b < b_.back(); b += 1e-3)
+  return b_[at];
+}
+
+double BHCurve::knee_tesla() const {
+  // The first B above the steepest point where the differential permeability has fallen below a
+  // tenth of its largest.
+  const double from = steepest_b();
+  const double best = 1.0 / dh_db(from);
+  for (double b = from; b < b_.back(); b += 1e-3)
     if (1.0 / dh_db(b) < 0.1 * best) return b;
   return b_.back();
 }
 
 double BHCurve::b_at_differential_mu_r(double mu_r) const {
-  double best = 0.0;
-  std::size_t at = 0;
-  for (std::size_t i = 0; i < b_.size(); ++i)
-    if (1.0 / slope_[i] > best) {
-      best = 1.0 / slope_[i];
-      at = i;
-    }
-  for (double b = b_[at]; b < b_.back(); b += 1e-3)
+  for (double b = steepest_b(); b < b_.back(); b += 1e-3)
     if (1.0 / (mu0 * dh_db(b)) < mu_r) return b;
   return b_.back();
 }

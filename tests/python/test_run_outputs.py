@@ -98,11 +98,18 @@ for folder in (os.path.join(tmp, "no_such_folder"), tmp):
 # them while summary.json said they were imposed).
 imposed = open(case).read().replace("bars = 20\n", "bars = 20\nbar_currents = \"imposed\"\n", 1)
 imposed = imposed.replace("[supply]", "[rotor_currents]\nbar_rms_a = 150.0\nangle_deg = 160.0\n\n[supply]", 1)
-imposed_case = os.path.join(tmp, "imposed.toml")
-open(imposed_case, "w").write(imposed)
-imposed_out = os.path.join(tmp, "run_imposed")
-run = subprocess.run([gapflux, "run", imposed_case, "--out", imposed_out], capture_output=True, text=True)
-check(run.returncode == 0, f"static run with imposed bar currents failed: {run.stderr[-400:]}")
+
+
+def run_text(text, name):
+    """Writes `text` as TMP/NAME.toml and runs it into TMP/run_NAME; returns the folder."""
+    path, folder = os.path.join(tmp, name + ".toml"), os.path.join(tmp, "run_" + name)
+    open(path, "w").write(text)
+    r = subprocess.run([gapflux, "run", path, "--out", folder], capture_output=True, text=True)
+    check(r.returncode == 0, f"{name}: run failed: {r.stderr[-400:]}")
+    return folder
+
+
+imposed_out = run_text(imposed, "imposed")
 si = json.load(open(os.path.join(imposed_out, "summary.json")))
 change = abs(si["field"]["energy_j"] - summary["field"]["energy_j"]) / summary["field"]["energy_j"]
 check(change > 0.01, f"imposed bar currents changed the stored energy by only {100 * change:.3f} %")
@@ -113,11 +120,7 @@ check("static study" in summary["rotor_currents"]["note"], "a static study's ind
 ts_text = open(case).read().replace(
     "[mesh]", "[study]\nkind = \"time_stepping\"\nsteps_per_period = 24\nperiods = 0.25\n"
     "motion = \"slip\"\nslip = 0.05\n\n[output]\nfields_every = 100\n\n[mesh]")
-ts_case = os.path.join(tmp, "stepping.toml")
-open(ts_case, "w").write(ts_text)
-ts_out = os.path.join(tmp, "run_stepping")
-run = subprocess.run([gapflux, "run", ts_case, "--out", ts_out], capture_output=True, text=True)
-check(run.returncode == 0, f"time-stepping run failed: {run.stderr[-300:]}")
+ts_out = run_text(ts_text, "stepping")
 ts = json.load(open(os.path.join(ts_out, "summary.json")))
 with h5py.File(os.path.join(ts_out, "results.h5"), "r") as f:
     b = f["steps/B"][...].reshape(f["steps/B"].shape[0], -1, 2)

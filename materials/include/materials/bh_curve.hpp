@@ -42,6 +42,7 @@ class BHCurve {
 
  private:
   std::size_t segment(double b) const;
+  double steepest_b() const;           // the table point of the largest differential permeability
   std::vector<double> b_, h_, slope_;  // slope_ = dH/dB at each point
   std::vector<double> energy_at_;      // ∫0^{b_i} H dB
   double j_sat_ = 0.0;
