@@ -8,55 +8,26 @@
 #include <numbers>
 #include <optional>
 
-#include "analysis_printout.hpp"
 #include "case_printout.hpp"
 #include "cases/case_reader.hpp"
 #include "geometry/lamination.hpp"
 #include "geometry/mesher.hpp"
 #include "geometry/moving_band.hpp"
-#include "interrupts.hpp"
 #include "materials/library.hpp"
-#include "postproc/baseline.hpp"
 #include "postproc/summary.hpp"
 #include "postproc/vtu_writer.hpp"
-#include "run_folder.hpp"
 #include "solver/cage_parameters.hpp"
 #include "solver/supply_currents.hpp"
 #include "solver/time_grid.hpp"
-#include "static_study.hpp"
-#include "transient_study.hpp"
+#include "studies/interrupts.hpp"
+#include "studies/prepared_case.hpp"
+#include "studies/run_folder.hpp"
+#include "studies/study.hpp"
 
 namespace gapflux {
-namespace {
-
-// Everything a command needs before meshing, fully checked.
-struct Prepared {
-  Case c;
-  Lamination lamination;
-  MeshSettings mesh_settings;
-  TimeGrid grid;
-  std::optional<CageValues> cage;  // an induced cage's circuit values
-};
-
-Prepared prepare(const std::string& case_path) {
-  Prepared p;
-  p.c = read_case_file(case_path);
-  const RegionMaterials materials = resolve_region_materials(p.c);
-  p.lamination = build_lamination(p.c);
-  if (p.c.rotor.kind == RotorKind::cage && p.c.rotor.bar_currents == BarCurrents::induced)
-    p.cage = cage_values(p.c, p.lamination, materials);
-  p.mesh_settings = resolve_mesh_settings(p.c, p.lamination);
-  if (p.c.study.kind == StudyKind::time_stepping)
-    p.grid = make_time_grid(p.c, 2.0 * std::numbers::pi / p.mesh_settings.band_nodes);
-  else
-    check_supply_at_instant(p.c, p.c.study.time_s);
-  return p;
-}
-
-}  // namespace
 
 int command_check(const std::string& case_path, const CommonOptions&) {
-  const Prepared p = prepare(case_path);
+  const PreparedCase p = prepare_case(case_path, read_case_file(case_path));
   print_resolved_case(std::cout, p.c, p.lamination, p.mesh_settings);
   if (p.cage)
     fmt::print(
@@ -90,7 +61,7 @@ int command_check(const std::string& case_path, const CommonOptions&) {
 
 int command_mesh(const std::string& case_path, const std::string& out_dir,
                  const CommonOptions& options) {
-  const Prepared p = prepare(case_path);
+  const PreparedCase p = prepare_case(case_path, read_case_file(case_path));
   const RunFolder folder(out_dir, {"mesh.vtu"},
                          options.replace ? FolderUse::replace : FolderUse::fresh);
   for (const std::string& w : p.mesh_settings.forecast.warnings)
@@ -106,73 +77,17 @@ int command_mesh(const std::string& case_path, const std::string& out_dir,
   return 0;
 }
 
-namespace {
-
-// The same case on a balanced, harmonic-free supply of the run's positive-sequence fundamental,
-// into DIR/baseline; the differences go into DIR/summary.json and onto stdout.
-void run_baseline(const std::string& case_path, const std::string& out_dir,
-                  const TransientStudy& study) {
-  RunSummary run = study.summary();
-  if (!run.analysis || run.analysis->periods < 1)
-    throw std::runtime_error("--baseline needs at least one whole retained electrical period");
-  // A voltage feed keeps its connection and gets balanced phase voltages at the supply's
-  // positive-sequence fundamental; a current feed balanced currents at the currents' one.
-  const SupplySpec given = read_case_file(case_path).supply;
-  const bool voltage = given.voltage_fed();
-  const HarmonicPhasors* f =
-      find_order(voltage ? run.analysis->supply_voltage : run.analysis->current, 1.0);
-  if (!f) throw std::runtime_error("--baseline: the run has no fundamental");
-  SupplySpec balanced;
-  balanced.feed = given.feed;
-  balanced.connection = given.connection;
-  balanced.voltage_basis = VoltageBasis::phase;
-  balanced.frequency_hz = run.frequency_hz;
-  balanced.form = SupplyForm::phases;
-  balanced.rms = std::abs(f->sequences.positive);
-  const double angle = std::arg(f->sequences.positive);
-  for (int k = 0; k < 3; ++k)
-    balanced.phases[k] = {balanced.rms, angle - k * 2.0 * std::numbers::pi / 3.0};
-  const std::string dir = (std::filesystem::path(out_dir) / "baseline").string();
-  fmt::print("\n== baseline: balanced {:.4g} {} at {:.2f}°, no harmonics, into {}\n", balanced.rms,
-             voltage ? "V (phase)" : "A", angle * 180.0 / std::numbers::pi, dir);
-  // The baseline's folder belongs to this run (locked with it): it is always rewritten.
-  TransientStudy base(case_path, dir, FolderUse::replace);
-  base.override_supply(balanced);
-  base.run();
-  BaselineComparison c = compare_with_baseline(run, base.summary());
-  c.baseline_dir = dir;
-  c.fundamental_rms = balanced.rms;
-  c.voltage_fed = voltage;
-  c.fundamental_angle_deg = angle * 180.0 / std::numbers::pi;
-  run.baseline = c;
-  write_summary_json(study.summary_path(), run);
-  print_baseline_table(stdout, c);
-}
-
-}  // namespace
-
 int command_run(const std::string& case_path, const std::string& out_dir,
                 const CommonOptions& options) {
   if (options.threads > 0) omp_set_num_threads(options.threads);
-  const bool stepping = read_case_file(case_path).study.kind == StudyKind::time_stepping;
-  if (options.resume && !stepping)
-    throw InputError(case_path, {}, "study.kind",
-                     "--resume continues a time-stepping study; this case is static");
-  if (options.baseline && !stepping)
-    throw InputError(case_path, {}, "study.kind",
-                     "--baseline compares time-stepping studies; this case is static");
-  const FolderUse use = options.resume    ? FolderUse::resume
-                        : options.replace ? FolderUse::replace
-                                          : FolderUse::fresh;
+  StudyOptions study;
+  study.folder_use = options.resume    ? FolderUse::resume
+                     : options.replace ? FolderUse::replace
+                                       : FolderUse::fresh;
+  study.detail = options.lean ? OutputDetail::lean : OutputDetail::full;
+  study.baseline = options.baseline;
   try {
-    if (stepping) {
-      const InterruptWatch interrupts;
-      TransientStudy study(case_path, out_dir, use);
-      study.run();
-      if (options.baseline) run_baseline(case_path, out_dir, study);
-    } else {
-      StaticStudy(case_path, out_dir, use).run();
-    }
+    run_study(case_path, read_case_file(case_path), out_dir, study);
   } catch (const Interrupted& i) {
     return 128 + i.signal_number;
   } catch (const NumericalError& e) {

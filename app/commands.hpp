@@ -10,6 +10,7 @@ struct CommonOptions {
   bool resume = false;    // run: continue a killed time-stepping run
   bool replace = false;   // run, mesh: overwrite the outputs of an earlier run in the folder
   bool baseline = false;  // run: also run the balanced, harmonic-free baseline and compare
+  bool lean = false;      // run: keep only what the summary and the analysis need
 };
 
 int command_check(const std::string& case_path, const CommonOptions& options);

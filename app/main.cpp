@@ -86,6 +86,9 @@ int main(int argc, char** argv) {
   run->add_flag("--replace", options.replace,
                 "overwrite the outputs of an earlier run in DIR (they are removed first)")
       ->excludes(resume);
+  run->add_flag("--lean", options.lean,
+                "keep only what summary.json and the analysis need: no per-step nodal potentials, "
+                "element fields only for the last period, no field snapshots");
   run->add_flag("--baseline", options.baseline,
                 "also run the same case on a balanced, harmonic-free supply of its "
                 "positive-sequence fundamental (into DIR/baseline) and report the differences");

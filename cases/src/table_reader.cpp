@@ -160,6 +160,67 @@ std::optional<std::vector<double>> TableReader::number_array(const std::string& 
   return out;
 }
 
+std::optional<std::vector<std::string>> TableReader::string_array(const std::string& key) {
+  mark(key);
+  const auto* n = static_cast<const toml::node*>(node(key));
+  if (!n) return std::nullopt;
+  const auto* array = n->as_array();
+  if (!array)
+    throw error(key, fmt::format("expected an array of strings, found {}", type_name(*n)));
+  std::vector<std::string> out;
+  for (const auto& item : *array) {
+    const auto v = item.value_exact<std::string>();
+    if (!v)
+      throw InputError(doc_->file, to_pos(item.source()), key_path(key),
+                       fmt::format("expected strings only, found {}", type_name(item)));
+    out.push_back(*v);
+  }
+  return out;
+}
+
+std::optional<std::vector<std::pair<SweepValue, SourcePos>>> TableReader::scalar_array(
+    const std::string& key) {
+  mark(key);
+  const auto* n = static_cast<const toml::node*>(node(key));
+  if (!n) return std::nullopt;
+  const auto* array = n->as_array();
+  if (!array) throw error(key, fmt::format("expected an array of values, found {}", type_name(*n)));
+  std::vector<std::pair<SweepValue, SourcePos>> out;
+  for (const auto& item : *array) {
+    SweepValue v;
+    if (auto d = item.value_exact<double>()) {
+      v.kind = SweepValue::Kind::number;
+      v.number = *d;
+    } else if (auto i = item.value_exact<int64_t>()) {
+      v.kind = SweepValue::Kind::integer;
+      v.integer = *i;
+      v.number = static_cast<double>(*i);
+    } else if (auto t = item.value_exact<std::string>()) {
+      v.kind = SweepValue::Kind::text;
+      v.text = *t;
+    } else if (auto b = item.value_exact<bool>()) {
+      v.kind = SweepValue::Kind::flag;
+      v.flag = *b;
+    } else {
+      throw InputError(
+          doc_->file, to_pos(item.source()), key_path(key),
+          fmt::format("expected numbers, strings or booleans, found {}", type_name(item)));
+    }
+    const bool numeric = v.kind == SweepValue::Kind::number || v.kind == SweepValue::Kind::integer;
+    if (!out.empty()) {
+      const SweepValue& first = out.front().first;
+      const bool first_numeric =
+          first.kind == SweepValue::Kind::number || first.kind == SweepValue::Kind::integer;
+      if (numeric != first_numeric || (!numeric && v.kind != first.kind))
+        throw InputError(doc_->file, to_pos(item.source()), key_path(key),
+                         "the values of one key must all be of one kind (numbers, strings or "
+                         "booleans)");
+    }
+    out.emplace_back(v, to_pos(item.source()));
+  }
+  return out;
+}
+
 std::vector<std::string> TableReader::keys() const {
   std::vector<std::string> out;
   for (const auto& [k, v] : *static_cast<const toml::table*>(table_)) out.emplace_back(k.str());

@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "cases/input_error.hpp"
+#include "cases/sweep_file.hpp"
 
 namespace gapflux {
 
@@ -29,6 +30,9 @@ class TableReader {
   std::optional<std::string> string(const std::string& key);
   std::optional<bool> boolean(const std::string& key);
   std::optional<std::vector<double>> number_array(const std::string& key);
+  std::optional<std::vector<std::string>> string_array(const std::string& key);
+  // An array of TOML scalars of one kind (numbers and integers mix), each with its position.
+  std::optional<std::vector<std::pair<SweepValue, SourcePos>>> scalar_array(const std::string& key);
   std::optional<TableReader> table(const std::string& key);
   // An array of tables ([[key]] in TOML); each element's path is "key[i]". Absent: empty.
   std::vector<TableReader> table_array(const std::string& key);

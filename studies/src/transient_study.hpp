@@ -19,7 +19,6 @@
 #include "postproc/run_analysis.hpp"
 #include "postproc/saturation.hpp"
 #include "postproc/summary.hpp"
-#include "run_folder.hpp"
 #include "solver/cage_circuit.hpp"
 #include "solver/cage_parameters.hpp"
 #include "solver/circuit.hpp"
@@ -27,6 +26,8 @@
 #include "solver/time_grid.hpp"
 #include "solver/winding_resistance.hpp"
 #include "solver/winding_sources.hpp"
+#include "studies/run_folder.hpp"
+#include "studies/study.hpp"
 
 namespace gapflux {
 
@@ -36,7 +37,9 @@ std::string snapshot_file(int step);
 class TransientStudy {
  public:
   // `use`: what to do with a folder that holds an earlier run (RunFolder).
-  TransientStudy(std::string case_path, std::string out_dir, FolderUse use);
+  // `c`: the case as read from `case_path` (whose text is the run's fingerprint).
+  TransientStudy(std::string case_path, Case c, std::string out_dir, FolderUse use,
+                 OutputDetail detail);
   // Throws InputError, NumericalError (after saving the finished steps), OutputError (a write
   // failed or the disk is full: the file keeps the steps written before), Interrupted.
   void run();
@@ -80,13 +83,23 @@ class TransientStudy {
   void cage_and_power_summary(RunSummary& s, int done) const;
   // Peak |B| and time over the threshold per triangle over the last period, written to
   // results.h5 (saturation/) and saturation.vtu.
-  // `b_rows`: steps/B as read (the finished steps' rows).
-  SaturationMap saturation_over_last_period(int done, const std::vector<double>& b_rows);
+  // `b_rows`: steps/B as read (the finished steps' rows from `first_row_step` on).
+  SaturationMap saturation_over_last_period(int done, const std::vector<double>& b_rows,
+                                            int first_row_step);
+  // The first step whose element fields are kept (lean: the last period's only).
+  int first_b_step() const {
+    return detail_ == OutputDetail::lean ? std::max(0, grid_.steps - grid_.steps_per_period) : 0;
+  }
+  // A field snapshot is written after step n.
+  bool snapshot_at(int n) const {
+    return detail_ == OutputDetail::full && n % case_.output.fields_every == 0;
+  }
   RunRecord read_record(int done) const;  // the finished steps, for the analysis
   void finish(const std::string& failure);
 
   std::string case_path_, out_dir_;
   FolderUse folder_use_ = FolderUse::fresh;
+  OutputDetail detail_ = OutputDetail::full;
   std::unique_ptr<RunFolder> folder_;
   Case case_;
   CaseFingerprint fingerprint_;

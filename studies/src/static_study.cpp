@@ -32,8 +32,11 @@ double now_s() {
 
 }  // namespace
 
-StaticStudy::StaticStudy(std::string case_path, std::string out_dir, FolderUse use)
-    : case_path_(std::move(case_path)), out_dir_(std::move(out_dir)), folder_use_(use) {}
+StaticStudy::StaticStudy(std::string case_path, Case c, std::string out_dir, FolderUse use)
+    : case_path_(std::move(case_path)),
+      out_dir_(std::move(out_dir)),
+      folder_use_(use),
+      case_(std::move(c)) {}
 
 void StaticStudy::run() {
   wall_start_s_ = now_s();
@@ -67,7 +70,6 @@ void StaticStudy::solve_and_write() {
 }
 
 void StaticStudy::set_up() {
-  case_ = read_case_file(case_path_);
   materials_ = resolve_region_materials(case_);
   lamination_ = build_lamination(case_);
   mesh_settings_ = resolve_mesh_settings(case_, lamination_);
@@ -193,6 +195,7 @@ void StaticStudy::write_output(const std::string& failure) {
   for (const NewtonIteration& it : report_.history) s.step_history.push_back(it.step);
   s.failure = failure;
   write_summary_json((fs::path(out_dir_) / "summary.json").string(), s);
+  summary_ = s;
 
   fmt::print("case: {}\n", case_.machine.name);
   fmt::print("mesh: order {}, {} triangles, {} dofs, sector 1 of {}\n", mesh_.order,

@@ -1,4 +1,4 @@
-#include "interrupts.hpp"
+#include "studies/interrupts.hpp"
 
 #include <unistd.h>
 

@@ -1,7 +1,7 @@
 #include "transient_study.hpp"
 
 #include "analysis_printout.hpp"
-#include "interrupts.hpp"
+#include "studies/interrupts.hpp"
 #include "study_summary.hpp"
 #include "version.hpp"
 
@@ -51,8 +51,13 @@ std::string duration_text(double seconds) {
 
 }  // namespace
 
-TransientStudy::TransientStudy(std::string case_path, std::string out_dir, FolderUse use)
-    : case_path_(std::move(case_path)), out_dir_(std::move(out_dir)), folder_use_(use) {}
+TransientStudy::TransientStudy(std::string case_path, Case c, std::string out_dir, FolderUse use,
+                               OutputDetail detail)
+    : case_path_(std::move(case_path)),
+      out_dir_(std::move(out_dir)),
+      folder_use_(use),
+      detail_(detail),
+      case_(std::move(c)) {}
 
 void TransientStudy::run() {
   wall_start_s_ = now_s();
@@ -106,7 +111,6 @@ void TransientStudy::run() {
 }
 
 void TransientStudy::set_up() {
-  case_ = read_case_file(case_path_);
   fingerprint_ = case_fingerprint(case_path_, case_, version_string);
   if (supply_override_) case_.supply = *supply_override_;
   materials_ = resolve_region_materials(case_);
@@ -146,6 +150,7 @@ int TransientStudy::open_results() {
   h5_->attribute("/", "study", std::string("time_stepping"));
   h5_->attribute("/", "program_version", std::string(version_string));
   h5_->attribute("/", "case_fingerprint", fingerprint_.digest);
+  h5_->attribute("/", "output_detail", std::string(to_string(detail_)));
   h5_->write_strings("case/settings", fingerprint_.lines);
   h5_->attribute("/", "steps_total", static_cast<long>(grid_.steps));
   h5_->attribute("/", "steps_done", 0L);
@@ -270,9 +275,10 @@ void TransientStudy::step(int n) {
   h5_->append_row("steps/airgap_B_r", s.b_r_tesla, "T");
   h5_->append_row("steps/airgap_B_theta", s.b_theta_tesla, "T");
   h5_->append_row("steps/radial_force_density", sigma, "N/m^2");
-  h5_->append_row("steps/A", nodal_potential(mesh_, system.dofs(), system.x()), "Wb/m");
+  if (detail_ == OutputDetail::full)
+    h5_->append_row("steps/A", nodal_potential(mesh_, system.dofs(), system.x()), "Wb/m");
   const ElementFields fields = evaluate_element_fields(system.assembler(), system.x(), model);
-  {
+  if (n >= first_b_step()) {
     // B per mesh triangle in the frame of its side (rotor triangles turned back by the rotor
     // angle), for the saturation map and the iron loss.
     std::vector<double> b(2 * mesh_.n_triangles());
@@ -293,11 +299,11 @@ void TransientStudy::step(int n) {
   if (cage_)  // the cage's second history value (BDF2) after a resume
     h5_->write("restart/x_previous",
                std::vector<double>(x_before_.data(), x_before_.data() + x_before_.size()), "1");
-  if (n % case_.output.fields_every == 0) write_fields(n, system, fields);
+  if (snapshot_at(n)) write_fields(n, system, fields);
   h5_->attribute("/", "steps_done", static_cast<long>(n + 1));
   h5_->flush();
 
-  measure_step_bytes(size_error ? 0 : file_bytes_before, n % case_.output.fields_every == 0);
+  measure_step_bytes(size_error ? 0 : file_bytes_before, snapshot_at(n));
 
   x_last_ = system.x();
   shift_last_ = system.band().shift;
@@ -377,13 +383,16 @@ void TransientStudy::finish(const std::string& failure) {
   }
   write_analysis(*h5_, *s.analysis);
   s.flux_linkage_wb = psi_last_;
-  // |B| per triangle and step, the retained steps' rows of steps/B.
-  const std::vector<double> b_rows = done > 0 ? h5_->read("steps/B") : std::vector<double>{};
-  for (std::size_t i = 2 * mesh_.n_triangles() * grid_.discarded_steps; i + 1 < b_rows.size();
-       i += 2)
+  // |B| per triangle and step: the rows of steps/B (from step b_first on) of the retained steps.
+  const int b_first = first_b_step();
+  const std::vector<double> b_rows = done > b_first ? h5_->read("steps/B") : std::vector<double>{};
+  for (std::size_t i = 2 * mesh_.n_triangles() * std::max(0, grid_.discarded_steps - b_first);
+       i + 1 < b_rows.size(); i += 2)
     s.b_peak_tesla = std::max(s.b_peak_tesla, std::hypot(b_rows[i], b_rows[i + 1]));
-  if (s.analysis->periods >= 1) {
-    s.saturation = saturation_over_last_period(done, b_rows);
+  // A lean run keeps element fields for its last period only: stopped earlier, it has no
+  // saturation map and no losses.
+  if (s.analysis->periods >= 1 && done - b_first >= grid_.steps_per_period) {
+    s.saturation = saturation_over_last_period(done, b_rows, b_first);
     s.losses_available = true;
     s.iron_stator_w = iron_loss_.stator_w;
     s.iron_rotor_w = iron_loss_.rotor_w;

@@ -1,4 +1,4 @@
-#include "run_folder.hpp"
+#include "studies/run_folder.hpp"
 
 #include <fcntl.h>
 #include <fmt/format.h>

@@ -13,19 +13,22 @@
 #include "geometry/mesher.hpp"
 #include "geometry/moving_band.hpp"
 #include "materials/library.hpp"
-#include "run_folder.hpp"
+#include "postproc/summary.hpp"
 #include "solver/assembly.hpp"
 #include "solver/magnetostatic_system.hpp"
 #include "solver/newton.hpp"
 #include "solver/winding_sources.hpp"
+#include "studies/run_folder.hpp"
 
 namespace gapflux {
 
 class StaticStudy {
  public:
-  StaticStudy(std::string case_path, std::string out_dir, FolderUse use);
+  // `c`: the case as read from `case_path` (which names it in messages).
+  StaticStudy(std::string case_path, Case c, std::string out_dir, FolderUse use);
   // Throws InputError (bad input) or NumericalError (after writing what exists).
   void run();
+  const RunSummary& summary() const { return summary_; }  // after run()
 
  private:
   void set_up();
@@ -46,6 +49,7 @@ class StaticStudy {
   std::array<double, 3> phase_current_a_{0, 0, 0};
   std::unique_ptr<MagnetostaticSystem> system_;
   NewtonReport report_;
+  RunSummary summary_;
   double wall_start_s_ = 0.0;
 };
 

@@ -11,12 +11,13 @@ namespace gapflux {
 
 namespace fs = std::filesystem;
 
-SaturationMap TransientStudy::saturation_over_last_period(int done,
-                                                          const std::vector<double>& all) {
+SaturationMap TransientStudy::saturation_over_last_period(int done, const std::vector<double>& all,
+                                                          int first_row_step) {
   const std::size_t nt = mesh_.n_triangles();
   const int spp = grid_.steps_per_period;
-  const std::vector<double> b_last(all.begin() + static_cast<long>(done - spp) * nt * 2,
-                                   all.begin() + static_cast<long>(done) * nt * 2);
+  const long row = static_cast<long>(nt) * 2;
+  const std::vector<double> b_last(all.begin() + (done - spp - first_row_step) * row,
+                                   all.begin() + (done - first_row_step) * row);
   std::vector<double> last(b_last.size() / 2);
   for (std::size_t i = 0; i < last.size(); ++i)
     last[i] = std::hypot(b_last[2 * i], b_last[2 * i + 1]);

@@ -24,7 +24,17 @@ void TransientStudy::check_fingerprint() const {
                                  "fingerprint (an older gapflux wrote it), so its settings cannot "
                                  "be compared; run afresh with --replace",
                                  out_dir_));
-  if (digest == fingerprint_.digest) return;
+  if (digest == fingerprint_.digest) {
+    // A lean run lacks the rows a full one keeps (and the other way round): the two do not mix.
+    std::string detail = stored->read_string_attribute("/", "output_detail");
+    if (detail.empty()) detail = "full";  // written before lean runs existed
+    if (detail != to_string(detail_))
+      throw InputError(case_path_, {}, "",
+                       fmt::format("cannot resume the run in {}: it was started {} --lean; "
+                                   "resume it the same way",
+                                   out_dir_, detail == "lean" ? "with" : "without"));
+    return;
+  }
   const std::vector<std::string> changes =
       fingerprint_changes(stored->read_strings("case/settings"), fingerprint_.lines);
   std::string list;
@@ -80,7 +90,7 @@ int TransientStudy::resume_results(const std::string& path) {
     }
   }
   for (int n = 0; n < done; ++n)
-    if (n % case_.output.fields_every == 0) snapshot_steps_.emplace_back(grid_.time(n), n);
+    if (snapshot_at(n)) snapshot_steps_.emplace_back(grid_.time(n), n);
   fmt::print(stderr, "resuming at step {} of {}\n", done + 1, grid_.steps);
   return static_cast<int>(done);
 }
@@ -118,13 +128,16 @@ void TransientStudy::ensure_room_for_step(int n) const {
   // What the step is expected to write with a quarter to spare, plus 2 MB for the summary and
   // the analysis: a step starts only if its writes will fit.
   std::uint64_t bytes = estimated_step_bytes() * 5 / 4 + (std::uint64_t{2} << 20);
-  if (n % case_.output.fields_every == 0) bytes += estimated_snapshot_bytes() * 5 / 4;
+  if (snapshot_at(n)) bytes += estimated_snapshot_bytes() * 5 / 4;
+  if (n >= first_b_step()) bytes += 16 * mesh_.n_triangles();  // a lean run's last period
   folder_->ensure_room(bytes, fmt::format("step {}", n + 1));
 }
 
 void TransientStudy::warn_if_run_will_not_fit() const {
   const int steps = grid_.steps - steps_done_;
-  const int snapshots = (steps + case_.output.fields_every - 1) / case_.output.fields_every;
+  const int snapshots = detail_ == OutputDetail::lean
+                            ? 0
+                            : (steps + case_.output.fields_every - 1) / case_.output.fields_every;
   const double need = static_cast<double>(steps) * estimated_step_bytes() +
                       static_cast<double>(snapshots) * estimated_snapshot_bytes();
   const double free = static_cast<double>(free_bytes_at(out_dir_));
