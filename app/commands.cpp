@@ -23,6 +23,7 @@
 #include "studies/prepared_case.hpp"
 #include "studies/run_folder.hpp"
 #include "studies/study.hpp"
+#include "studies/sweep.hpp"
 
 namespace gapflux {
 
@@ -96,6 +97,49 @@ int command_run(const std::string& case_path, const std::string& out_dir,
     return 3;
   }
   return 0;
+}
+
+namespace {
+
+// This very program, for the sweep's workers and Slurm tasks.
+std::string this_program() {
+  std::error_code ec;
+  const std::filesystem::path self = std::filesystem::read_symlink("/proc/self/exe", ec);
+  if (ec) throw std::runtime_error("cannot find this program's path (/proc/self/exe)");
+  return self.string();
+}
+
+}  // namespace
+
+int command_sweep(const std::string& sweep_path, const std::string& out_dir,
+                  const SweepOptions& options) {
+  const SweepPlan plan =
+      plan_sweep(sweep_path, out_dir,
+                 options.replace ? SweepFolderUse::replace : SweepFolderUse::continue_same);
+  fmt::print(
+      "sweep: {} case(s) from {} checked and written to {}/cases (manifest.csv maps "
+      "names to values)\n",
+      plan.cases.size(), sweep_path, out_dir);
+  if (options.slurm) return submit_sweep_to_slurm(plan, this_program(), options.submit);
+  int workers = options.workers > 0 ? options.workers : plan.spec.workers;
+  if (workers == 0) workers = std::max(1, omp_get_num_procs() / plan.spec.threads_per_case);
+  return run_sweep_locally(plan, this_program(), workers);
+}
+
+int command_sweep_case(const std::string& dir, int index, const CommonOptions& options) {
+  const SweepPlan plan = read_sweep_plan(dir);
+  const int threads = options.threads > 0 ? options.threads : plan.spec.threads_per_case;
+  return run_sweep_case(plan, index, this_program(), threads);
+}
+
+int command_collect(const std::string& dir) {
+  const SweepPlan plan = read_sweep_plan(dir);
+  const SweepTable t = collect_sweep(plan);
+  fmt::print(
+      "collect: {} case(s): {} finished, {} failed, {} not run; wrote {}/sweep.csv and "
+      "sweep.h5\n",
+      plan.cases.size(), t.finished, t.failed, t.pending, dir);
+  return t.finished == static_cast<int>(plan.cases.size()) ? 0 : 1;
 }
 
 }  // namespace gapflux

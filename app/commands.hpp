@@ -19,4 +19,15 @@ int command_mesh(const std::string& case_path, const std::string& out_dir,
 int command_run(const std::string& case_path, const std::string& out_dir,
                 const CommonOptions& options);
 
+struct SweepOptions {
+  int workers = 0;       // 0: the sweep file's, else cores / threads per case
+  bool replace = false;  // remove an earlier sweep's outputs from DIR first
+  bool slurm = false;    // as a Slurm job array instead of local workers
+  bool submit = true;    // with slurm: submit (else only write the scripts)
+};
+int command_sweep(const std::string& sweep_path, const std::string& out_dir,
+                  const SweepOptions& options);
+int command_sweep_case(const std::string& dir, int index, const CommonOptions& options);
+int command_collect(const std::string& dir);
+
 }  // namespace gapflux

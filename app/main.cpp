@@ -49,7 +49,7 @@ std::string unknown_command(int argc, char** argv, const std::vector<std::string
 
 int main(int argc, char** argv) {
   using namespace gapflux;
-  const std::vector<std::string> commands{"check", "mesh", "run"};
+  const std::vector<std::string> commands{"check", "mesh", "run", "sweep", "sweep-case", "collect"};
   if (const std::string word = unknown_command(argc, argv, commands); !word.empty()) {
     std::cerr << fmt::format(
         "gapflux: error: unknown command {}; the commands are {} (see "
@@ -93,6 +93,40 @@ int main(int argc, char** argv) {
                 "also run the same case on a balanced, harmonic-free supply of its "
                 "positive-sequence fundamental (into DIR/baseline) and report the differences");
 
+  std::string sweep_path;
+  SweepOptions sweep_options;
+  auto* sweep = app.add_subcommand(
+      "sweep",
+      "run the cases a sweep file makes from its base case (checked first, written to "
+      "DIR/cases) on local worker processes or as a Slurm job array; collect DIR/sweep.csv");
+  sweep->add_option("SWEEP", sweep_path, "sweep file (TOML)")->required();
+  sweep->add_option("--out", out_dir, "sweep folder")->required();
+  sweep
+      ->add_option("--workers", sweep_options.workers,
+                   "cases at a time on this machine (default: the sweep file's, else cores / "
+                   "threads per case)")
+      ->check(CLI::Range(1, max_threads));
+  sweep->add_flag("--replace", sweep_options.replace,
+                  "remove the outputs of another sweep in DIR first (the same sweep continues "
+                  "without it)");
+  auto* slurm = sweep->add_flag("--slurm", sweep_options.slurm,
+                                "write a Slurm job array (one task per case) and a collect job "
+                                "into DIR/slurm and submit them with sbatch");
+  sweep
+      ->add_flag("!--no-submit", sweep_options.submit,
+                 "with --slurm: write the job scripts but do not submit them")
+      ->needs(slurm);
+  std::string sweep_dir;
+  int case_index = -1;
+  auto* sweep_case = app.add_subcommand(
+      "sweep-case",
+      "run case INDEX of the sweep in DIR as its workers do (what a Slurm task runs)");
+  sweep_case->add_option("DIR", sweep_dir, "sweep folder")->required();
+  sweep_case->add_option("INDEX", case_index, "case index (manifest.csv)")->required();
+  auto* collect = app.add_subcommand(
+      "collect", "gather the sweep in DIR into DIR/sweep.csv and sweep.h5 (also mid-sweep)");
+  collect->add_option("DIR", sweep_dir, "sweep folder")->required();
+
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
@@ -103,6 +137,9 @@ int main(int argc, char** argv) {
     if (check->parsed()) return command_check(case_path, options);
     if (mesh->parsed()) return command_mesh(case_path, out_dir, options);
     if (run->parsed()) return command_run(case_path, out_dir, options);
+    if (sweep->parsed()) return command_sweep(sweep_path, out_dir, sweep_options);
+    if (sweep_case->parsed()) return command_sweep_case(sweep_dir, case_index, options);
+    if (collect->parsed()) return command_collect(sweep_dir);
   } catch (const InputError& e) {
     std::cerr << e.what() << "\n";
     return 2;

@@ -47,10 +47,14 @@ CaseFingerprint case_fingerprint(const std::string& case_path, const Case& c,
                                   c.supply.waveform.time_s.size(), h));
   }
   f.lines.push_back(fmt::format("gapflux version = {}", program_version));
-  std::uint64_t h = fnv1a("");
-  for (const std::string& line : f.lines) h = fnv1a(line + "\n", h);
-  f.digest = fmt::format("{:016x}", h);
+  f.digest = lines_digest(f.lines);
   return f;
+}
+
+std::string lines_digest(const std::vector<std::string>& lines) {
+  std::uint64_t h = fnv1a("");
+  for (const std::string& line : lines) h = fnv1a(line + "\n", h);
+  return fmt::format("{:016x}", h);
 }
 
 std::vector<std::string> fingerprint_changes(const std::vector<std::string>& before,

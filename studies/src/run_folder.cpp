@@ -64,6 +64,7 @@ RunFolder::RunFolder(std::string dir, std::vector<std::string> outputs, FolderUs
     // The lock holds without its note; the note only improves the refusal's message.
   }
 
+  if (use == FolderUse::keep) return;
   std::vector<std::string> present;
   for (const std::string& name : outputs)
     if (fs::exists(path(name), ec)) present.push_back(name);

@@ -19,6 +19,9 @@ struct CaseFingerprint {
 CaseFingerprint case_fingerprint(const std::string& case_path, const Case& c,
                                  std::string_view program_version);
 
+// 16 hex digits (FNV-1a, 64 bit) of the lines, each ended by a newline.
+std::string lines_digest(const std::vector<std::string>& lines);
+
 // What changed from `before` to `after`, one readable line per key ("supply.rms_a: 21.0 →
 // 22.0", "study.slip added: 0.05", "output.fields_every removed").
 std::vector<std::string> fingerprint_changes(const std::vector<std::string>& before,

@@ -13,6 +13,7 @@ enum class FolderUse {
   fresh,    // refuse a folder holding outputs of this command
   replace,  // remove those outputs first
   resume,   // keep them (a time-stepping run continues); nothing to resume → fresh
+  keep,     // keep whatever is there, only lock (a sweep's folder: the sweep decides what stays)
 };
 
 class RunFolder {
