@@ -141,7 +141,7 @@ void TransientStudy::set_up() {
 }
 
 int TransientStudy::open_results() {
-  fs::create_directories(fs::path(out_dir_) / "fields");
+  if (detail_ == OutputDetail::full) fs::create_directories(fs::path(out_dir_) / "fields");
   const std::string path = folder_->path("results.h5");
   if (folder_->resuming()) return resume_results(path);
   h5_ = std::make_unique<ResultsFile>(path);
