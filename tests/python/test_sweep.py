@@ -196,7 +196,17 @@ for text, words in [
 r = subprocess.run([gapflux, "collect", tmp + "/nowhere"], capture_output=True, text=True)
 check(r.returncode == 2 and "manifest.json" in r.stderr, f"collect without a sweep: {r.stderr}")
 
-# 9. A lean run gives the same summary as a full one; its file is smaller.
+# 9. The example sweep (the full demo motor): every case checks; the job scripts are written.
+example = os.path.join(os.path.dirname(examples), "sweeps", "pump_unbalance.toml")
+ex_out = os.path.join(tmp, "example")
+r = subprocess.run([gapflux, "sweep", example, "--out", ex_out, "--slurm", "--no-submit"],
+                   capture_output=True, text=True)
+check(r.returncode == 0 and "5 case(s)" in r.stdout, f"example sweep: {r.stdout} {r.stderr}")
+check(os.path.exists(os.path.join(ex_out, "slurm", "array.sbatch")) and
+      not os.path.exists(os.path.join(ex_out, "runs", "case_0000", "summary.json")),
+      "--no-submit writes the job scripts and runs nothing")
+
+# 10. A lean run gives the same summary as a full one; its file is smaller.
 full_dir, lean_dir = os.path.join(tmp, "full"), os.path.join(tmp, "lean")
 case = small_case(examples, tmp, name="one.toml", fields_every=4, steps=48)
 for d, extra in ((full_dir, []), (lean_dir, ["--lean"])):
