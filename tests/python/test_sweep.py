@@ -97,6 +97,13 @@ with h5py.File(os.path.join(run0, "results.h5"), "r") as f:
     check("A" not in f["steps"], "a lean run keeps no per-step nodal potentials")
 check(not os.path.exists(os.path.join(run0, "fields")), "a lean run writes no snapshots")
 
+# The sweep's report page: each output against each varied key (5 × 2 plots) and the table.
+source = os.path.dirname(os.path.dirname(os.path.abspath(examples)))
+r = subprocess.run([os.path.join(source, "script", "report"), out], capture_output=True, text=True)
+page = open(os.path.join(out, "sweep.html")).read() if r.returncode == 0 else ""
+check(page.count("<img") == 10 and "case_0005" in page and "Cautions" in page,
+      f"sweep report: {r.stderr[-300:]} ({page.count('<img')} plots)")
+
 # 3. Rerun: nothing recomputed (summary files untouched), exit 0.
 stamps = {r["name"]: os.stat(os.path.join(out, "runs", r["name"], "summary.json")).st_mtime_ns
           for r in rows}
