@@ -4,7 +4,8 @@
 //
 //   build/bench/gapflux_bench [--quick] [--threads N] [--stepping STEPS] [--history]
 //                             [--steps-per-period K] [--cg-budget N] [--locked]
-//                             [--new-system-each-step]
+//                             [--new-system-each-step] [--help]
+// An unknown option or a value that is not a whole number is refused (exit 2).
 //
 // --stepping STEPS runs only the time-stepping figures over that many steps; --history prints
 // each step's Newton iterations (residual, line-search step, update, new factor or CG);
@@ -12,7 +13,8 @@
 // allowed on an earlier factor (0: plain Newton, a new factor every iteration); --locked holds
 // the rotor still, where the last step's system and factor serve again (as in `gapflux run`),
 // unless --new-system-each-step builds a new one every step (as before 2026-12-02).
-// The static table times plain Newton per iteration against bare CHOLMOD; cold_f and warm_f are
+// The static table times plain Newton per iteration (medians, the converging assembly included)
+// against bare CHOLMOD (the median of five); cold_f and warm_f are
 // the factorisations the same solves need with the default factor reuse.
 //
 // The time-stepping block runs bench/cases/pump_running_imposed.toml (current-fed, imposed bar
@@ -22,8 +24,11 @@
 
 #include <sys/resource.h>
 
+#include <algorithm>
 #include <chrono>
 #include <cmath>
+#include <cstdio>
+#include <cstdlib>
 #include <cstring>
 #include <memory>
 #include <numbers>
@@ -48,6 +53,13 @@ namespace {
 
 double seconds(std::chrono::steady_clock::time_point t0) {
   return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+}
+
+double median(std::vector<double> v) {
+  if (v.empty()) return 0.0;
+  std::sort(v.begin(), v.end());
+  const std::size_t n = v.size();
+  return n % 2 ? v[n / 2] : 0.5 * (v[n / 2 - 1] + v[n / 2]);
 }
 
 double peak_memory_mb() {
@@ -113,34 +125,38 @@ Row run_case(const std::string& name, const std::string& path, double refine) {
   const NewtonReport cold = system.solve(model, newton);
   row.cold_iterations = cold.iterations;
   row.analyse_s = cold.analyse_s;
+  // Medians per iteration (the first iteration's assembly also sets up the pattern; a median
+  // is not moved by it). The converging assembly is spread over the iterations it ends.
+  std::vector<double> assembly, factor, solve;
   for (const NewtonIteration& it : cold.history) {
-    row.assembly_s += it.assembly_s;
-    row.factor_s += it.factorize_s;
-    row.solve_s += it.solve_s;
+    assembly.push_back(it.assembly_s + cold.final_assembly_s / std::max(1, cold.iterations));
+    factor.push_back(it.factorize_s);
+    solve.push_back(it.solve_s);
   }
-  const int n_it = std::max(1, cold.iterations);
-  row.assembly_s /= n_it;
-  row.factor_s /= n_it;
-  row.solve_s /= n_it;
+  row.assembly_s = median(assembly);
+  row.factor_s = median(factor);
+  row.solve_s = median(solve);
 
   // Warm start: the next time step of a 100-steps-per-period study, from this solution.
   model = make_region_model(
       mesh, materials, region_current_density(coils, currents_at(0.01 / c.supply.frequency_hz)));
   row.warm_iterations = system.solve(model, newton).iterations;
 
-  // Bare CHOLMOD on the last Jacobian: numeric factorisation and one solve, best of three.
+  // Bare CHOLMOD on the last Jacobian: numeric factorisation and one solve, the median of
+  // five (a median against the medians above: the ratio is of like to like).
   Assembler& a = system.assembler();
   a.assemble(system.x(), model, true);
   SparseCholesky bare;
   bare.analyze(a.n_dofs(), a.column_starts(), a.row_indices());
   std::vector<double> x(a.n_dofs()), b(a.n_dofs(), 1.0);
-  row.bare_s = 1e300;
-  for (int k = 0; k < 3; ++k) {
+  std::vector<double> bare_times;
+  for (int k = 0; k < 5; ++k) {
     t0 = std::chrono::steady_clock::now();
     bare.factorize(a.values());
     bare.solve(b.data(), x.data());
-    row.bare_s = std::min(row.bare_s, seconds(t0));
+    bare_times.push_back(seconds(t0));
   }
+  row.bare_s = median(bare_times);
   row.factor_nnz = bare.factor_nonzeros();
   return row;
 }
@@ -232,6 +248,7 @@ void run_stepping(const std::string& path, const SteppingOptions& o) {
       factor += it.factorize_s;
       solve += it.solve_s;
     }
+    assembly += report.final_assembly_s;
     remesh += report.analyse_s;
     t0 = std::chrono::steady_clock::now();
     arkkio_torque_nm(system.assembler(), system.x(), mesh, c.machine.stack_length_m);
@@ -265,6 +282,31 @@ void run_stepping(const std::string& path, const SteppingOptions& o) {
       band_residual / std::max(1, steps - 1), other_residual / std::max(1, steps - 1));
 }
 
+// The options, each with whether it takes a whole-number value, and its one-line help.
+struct BenchOption {
+  const char* name;
+  bool takes_value;
+  const char* help;
+};
+constexpr BenchOption bench_options[] = {
+    {"--quick", false, "three sizes of the series instead of six; 6 time steps instead of 20"},
+    {"--threads", true, "OpenMP threads (default: all cores)"},
+    {"--stepping", true, "only the time-stepping figures, over this many steps"},
+    {"--history", false, "print each step's Newton iterations"},
+    {"--steps-per-period", true, "override the running case's steps per period"},
+    {"--cg-budget", true, "CG iterations allowed on an earlier factor (0: a new factor always)"},
+    {"--locked", false, "hold the rotor still (the system and factor are kept between steps)"},
+    {"--new-system-each-step", false, "with --locked: a new system every step"},
+    {"--help", false, "this text"},
+};
+
+void print_usage(std::FILE* out) {
+  fmt::print(out, "usage: gapflux_bench [options]\n");
+  for (const BenchOption& o : bench_options)
+    fmt::print(out, "  {:<24} {}\n", fmt::format("{}{}", o.name, o.takes_value ? " N" : ""),
+               o.help);
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
@@ -272,18 +314,38 @@ int main(int argc, char** argv) {
   int stepping_only = 0;
   SteppingOptions stepping;
   for (int i = 1; i < argc; ++i) {
-    if (std::strcmp(argv[i], "--quick") == 0) quick = true;
-    if (std::strcmp(argv[i], "--history") == 0) stepping.history = true;
-    if (std::strcmp(argv[i], "--locked") == 0) stepping.locked = true;
-    if (std::strcmp(argv[i], "--new-system-each-step") == 0) stepping.new_system_each_step = true;
-    if (std::strcmp(argv[i], "--stepping") == 0 && i + 1 < argc)
-      stepping_only = std::atoi(argv[++i]);
-    if (std::strcmp(argv[i], "--steps-per-period") == 0 && i + 1 < argc)
-      stepping.steps_per_period = std::atoi(argv[++i]);
-    if (std::strcmp(argv[i], "--cg-budget") == 0 && i + 1 < argc)
-      stepping.cg_budget = std::atoi(argv[++i]);
-    if (std::strcmp(argv[i], "--threads") == 0 && i + 1 < argc)
-      omp_set_num_threads(std::atoi(argv[++i]));
+    const std::string word = argv[i];
+    const BenchOption* option = nullptr;
+    for (const BenchOption& o : bench_options)
+      if (word == o.name) option = &o;
+    if (!option) {
+      fmt::print(stderr, "gapflux_bench: unknown option {}\n", word);
+      print_usage(stderr);
+      return 2;
+    }
+    int value = 0;
+    if (option->takes_value) {
+      const char* text = i + 1 < argc ? argv[++i] : "";
+      char* end = nullptr;
+      const long v = std::strtol(text, &end, 10);
+      if (*text == '\0' || *end != '\0' || v < 0 || v > 1000000) {
+        fmt::print(stderr, "gapflux_bench: {} needs a whole number ≥ 0 (got \"{}\")\n", word, text);
+        return 2;
+      }
+      value = static_cast<int>(v);
+    }
+    if (word == "--help") {
+      print_usage(stdout);
+      return 0;
+    }
+    if (word == "--quick") quick = true;
+    if (word == "--history") stepping.history = true;
+    if (word == "--locked") stepping.locked = true;
+    if (word == "--new-system-each-step") stepping.new_system_each_step = true;
+    if (word == "--stepping") stepping_only = value;
+    if (word == "--steps-per-period") stepping.steps_per_period = value;
+    if (word == "--cg-budget") stepping.cg_budget = value;
+    if (word == "--threads" && value > 0) omp_set_num_threads(value);
   }
   const std::string dir = GAPFLUX_EXAMPLES_DIR;
   // The field solver's own stepping cost: the running demo current-fed with an imposed bar set

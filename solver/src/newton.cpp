@@ -113,6 +113,7 @@ NewtonReport solve_newton(Assembler& assembler, SparseCholesky& cholesky, const 
                             record.relative_residual < 100.0 * settings.residual_tolerance);
     if (converged) {
       report.converged = true;
+      report.final_assembly_s = record.assembly_s;  // the assembly that showed convergence
       return report;
     }
     if (it >= settings.max_iterations) {

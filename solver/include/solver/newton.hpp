@@ -63,6 +63,9 @@ struct NewtonReport {
   std::vector<NewtonIteration> history;
   bool analysed = false;  // a new symbolic analysis was made
   double analyse_s = 0.0;
+  // The last assembly, which found the residual converged: part of the solve's cost, though no
+  // iteration follows it.
+  double final_assembly_s = 0.0;
 
   // The relative residual at the start of each iteration and, when converged, the converged
   // value that ended it (a failed solve's history already ends with its last iterate).
