@@ -11,6 +11,7 @@
 #include "case_printout.hpp"
 #include "cases/case_reader.hpp"
 #include "geometry/lamination.hpp"
+#include "geometry/mesh_cache.hpp"
 #include "geometry/mesher.hpp"
 #include "geometry/moving_band.hpp"
 #include "materials/library.hpp"
@@ -67,7 +68,7 @@ int command_mesh(const std::string& case_path, const std::string& out_dir,
                          options.replace ? FolderUse::replace : FolderUse::fresh);
   for (const std::string& w : p.mesh_settings.forecast.warnings)
     fmt::print(stderr, "warning: {}\n", w);
-  const Mesh mesh = mesh_lamination(p.lamination, p.mesh_settings);
+  const Mesh mesh = cached_mesh(p.lamination, p.mesh_settings);
   const MeshQuality quality = mesh_quality(mesh);
   const BandMesh band = build_moving_band(mesh, 0.0);
   const std::string path = folder.path("mesh.vtu");
@@ -130,6 +131,18 @@ int command_sweep_case(const std::string& dir, int index, const CommonOptions& o
   const SweepPlan plan = read_sweep_plan(dir);
   const int threads = options.threads > 0 ? options.threads : plan.spec.threads_per_case;
   return run_sweep_case(plan, index, this_program(), threads);
+}
+
+int command_mesh_cache(const std::string& action) {
+  const std::string dir = mesh_cache_dir();
+  if (dir.empty()) {
+    fmt::print("mesh cache: off (GAPFLUX_MESH_CACHE=off, or no home folder)\n");
+    return 0;
+  }
+  const CacheContents c = action == "clear" ? clear_mesh_cache(dir) : mesh_cache_contents(dir);
+  fmt::print("mesh cache {}: {} {} mesh(es), {:.1f} MB\n", dir,
+             action == "clear" ? "removed" : "holds", c.entries, c.bytes / 1e6);
+  return 0;
 }
 
 int command_collect(const std::string& dir) {

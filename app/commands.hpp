@@ -29,5 +29,7 @@ int command_sweep(const std::string& sweep_path, const std::string& out_dir,
                   const SweepOptions& options);
 int command_sweep_case(const std::string& dir, int index, const CommonOptions& options);
 int command_collect(const std::string& dir);
+// `action`: "info" or "clear".
+int command_mesh_cache(const std::string& action);
 
 }  // namespace gapflux

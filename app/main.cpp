@@ -49,7 +49,7 @@ std::string unknown_command(int argc, char** argv, const std::vector<std::string
 
 int main(int argc, char** argv) {
   using namespace gapflux;
-  const std::vector<std::string> commands{"check", "mesh", "run", "sweep", "sweep-case", "collect"};
+  const std::vector<std::string> commands{"check", "mesh", "run", "sweep", "sweep-case", "collect", "mesh-cache"};
   if (const std::string word = unknown_command(argc, argv, commands); !word.empty()) {
     std::cerr << fmt::format(
         "gapflux: error: unknown command {}; the commands are {} (see "
@@ -127,6 +127,14 @@ int main(int argc, char** argv) {
       "collect", "gather the sweep in DIR into DIR/sweep.csv and sweep.h5 (also mid-sweep)");
   collect->add_option("DIR", sweep_dir, "sweep folder")->required();
 
+  std::string cache_action = "info";
+  auto* cache = app.add_subcommand(
+      "mesh-cache",
+      "show or clear the meshes kept between runs ($GAPFLUX_MESH_CACHE, else "
+      "~/.cache/gapflux/meshes; GAPFLUX_MESH_CACHE=off turns it off)");
+  cache->add_option("ACTION", cache_action, "info (default) or clear")
+      ->check(CLI::IsMember({"info", "clear"}));
+
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
@@ -140,6 +148,7 @@ int main(int argc, char** argv) {
     if (sweep->parsed()) return command_sweep(sweep_path, out_dir, sweep_options);
     if (sweep_case->parsed()) return command_sweep_case(sweep_dir, case_index, options);
     if (collect->parsed()) return command_collect(sweep_dir);
+    if (cache->parsed()) return command_mesh_cache(cache_action);
   } catch (const InputError& e) {
     std::cerr << e.what() << "\n";
     return 2;

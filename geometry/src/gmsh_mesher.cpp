@@ -34,6 +34,14 @@ class GmshSession {
   GmshSession& operator=(const GmshSession&) = delete;
 };
 
+}  // namespace
+
+const char* gmsh_library_version() {
+  return GMSH_API_VERSION;
+}
+
+namespace {
+
 std::runtime_error gmsh_failure(const std::string& what) {
   std::string last;
   try {

@@ -1,6 +1,10 @@
 #include "studies/prepared_case.hpp"
 
+#include <fmt/format.h>
+
 #include <numbers>
+
+#include "geometry/mesh_cache.hpp"
 
 #include "materials/library.hpp"
 #include "solver/supply_currents.hpp"
@@ -20,6 +24,12 @@ PreparedCase prepare_case(const std::string&, Case c) {
   else
     check_supply_at_instant(p.c, p.c.study.time_s);
   return p;
+}
+
+Mesh cached_mesh(const Lamination& lam, const MeshSettings& settings) {
+  CachedMesh m = mesh_lamination_cached(lam, settings, mesh_cache_dir());
+  if (!m.note.empty()) fmt::print(stderr, "{}\n", m.note);
+  return std::move(m.mesh);
 }
 
 }  // namespace gapflux

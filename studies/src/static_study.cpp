@@ -1,5 +1,7 @@
 #include "static_study.hpp"
 
+#include "studies/prepared_case.hpp"
+
 #include "study_summary.hpp"
 
 #include <fmt/format.h>
@@ -79,7 +81,7 @@ void StaticStudy::set_up() {
   check_supply_at_instant(case_, case_.study.time_s);
   // The case is valid: only now may the folder be locked (and, with --replace, cleared).
   folder_ = std::make_unique<RunFolder>(out_dir_, RunFolder::run_outputs(), folder_use_);
-  mesh_ = mesh_lamination(lamination_, mesh_settings_);
+  mesh_ = cached_mesh(lamination_, mesh_settings_);
   system_ = std::make_unique<MagnetostaticSystem>(mesh_, case_.study.rotor_angle_rad);
   phase_current_a_ = supply_phase_currents_a(case_.supply, case_.study.time_s);
 

@@ -1,5 +1,7 @@
 #include "transient_study.hpp"
 
+#include "studies/prepared_case.hpp"
+
 #include "analysis_printout.hpp"
 #include "studies/interrupts.hpp"
 #include "study_summary.hpp"
@@ -122,7 +124,7 @@ void TransientStudy::set_up() {
   // The case is valid: only now may the folder be locked (and, with --replace, cleared).
   folder_ = std::make_unique<RunFolder>(out_dir_, RunFolder::run_outputs(), folder_use_);
   if (folder_->resuming()) check_fingerprint();
-  mesh_ = mesh_lamination(lamination_, mesh_settings);
+  mesh_ = cached_mesh(lamination_, mesh_settings);
   coils_ = coil_regions(mesh_, lamination_.winding);
   grid_ = make_time_grid(case_, mesh_.stator_ring.pitch_rad);
   airgap_samples_ =

@@ -6,6 +6,7 @@
 
 #include "cases/case.hpp"
 #include "geometry/lamination.hpp"
+#include "geometry/mesh.hpp"
 #include "geometry/mesher.hpp"
 #include "solver/cage_parameters.hpp"
 #include "solver/time_grid.hpp"
@@ -22,5 +23,9 @@ struct PreparedCase {
 
 // `c` as read from `case_path`; throws InputError naming the file, line and key.
 PreparedCase prepare_case(const std::string& case_path, Case c);
+
+// The lamination's mesh, from the mesh cache (geometry/mesh_cache.hpp) when it holds it; says on
+// stderr where it came from.
+Mesh cached_mesh(const Lamination& lam, const MeshSettings& settings);
 
 }  // namespace gapflux
