@@ -2,6 +2,7 @@
 // Inside Gmsh lengths are in millimetres (its tolerances suit that scale); out here, metres.
 #include <fmt/format.h>
 #include <gmsh.h>
+#include <omp.h>
 
 #include <algorithm>
 #include <cmath>
@@ -22,16 +23,24 @@ constexpr double from_gmsh = 1e-3;
 constexpr double two_pi = 2.0 * std::numbers::pi;
 
 // Gmsh keeps global state: one session per meshing call.
+// Gmsh resets OpenMP's thread count to one when it meshes; the session puts back the count the
+// program had, so the solver after it runs on the threads asked for.
 class GmshSession {
  public:
-  GmshSession() {
+  GmshSession() : threads_(omp_get_max_threads()) {
     gmsh::initialize(0, nullptr, false);
     gmsh::option::setNumber("General.Terminal", 0);
     gmsh::model::add("gapflux");
   }
-  ~GmshSession() { gmsh::finalize(); }
+  ~GmshSession() {
+    gmsh::finalize();
+    omp_set_num_threads(threads_);
+  }
   GmshSession(const GmshSession&) = delete;
   GmshSession& operator=(const GmshSession&) = delete;
+
+ private:
+  int threads_;
 };
 
 }  // namespace

@@ -111,56 +111,84 @@ LocalVector Assembler::local_values(std::size_t element, const Eigen::VectorXd& 
 }
 
 void Assembler::assemble(const Eigen::VectorXd& x, const RegionModel& model, bool tangent) {
-  if (tangent) std::fill(values_.begin(), values_.end(), 0.0);
+  // Each thread sums its share of the elements into buffers of its own (thread 0 into the
+  // results themselves); the buffers are then added in thread order. No atomics, and the same
+  // thread count gives the same sums bit for bit, run after run.
+  const int threads = std::max(1, omp_get_max_threads());
+  const std::size_t nnz = values_.size();
+  const std::size_t n = static_cast<std::size_t>(n_dofs_);
+  thread_values_.resize(threads - 1);
+  thread_residual_.resize(threads - 1);
+  thread_load_.resize(threads - 1);
+  load_.assign(n, 0.0);
   residual_.setZero(n_dofs_);
-  Eigen::VectorXd load = Eigen::VectorXd::Zero(n_dofs_);
+  if (tangent) std::fill(values_.begin(), values_.end(), 0.0);
   const long n_elements = static_cast<long>(elements_.size());
-  double* values = values_.data();
-  double* residual = residual_.data();
-  double* load_data = load.data();
-#pragma omp parallel for schedule(static)
-  for (long e = 0; e < n_elements; ++e) {
-    const ElementRecord& rec = elements_[e];
-    const int n = rec.nodes.n_nodes();
-    const LocalVector a = local_values(static_cast<std::size_t>(e), x);
-    LocalMatrix k_local;
-    LocalVector r_local, f_local;
-    const Material& material = *model.material[rec.region];
-    const ElementSource& source = model.source[rec.region];
-    magnetostatic_element(rec.nodes, a, material, source, tangent, k_local, r_local, f_local);
-    bool loaded = source.function != nullptr || source.constant_a_per_m2 != 0.0;
-    const double sigma =
-        model.eddy_s_per_m.empty() || !model.eddy_history ? 0.0 : model.eddy_s_per_m[rec.region];
-    if (sigma > 0.0) {
-      // The history's part of the eddy term is a known source: it counts in the load too.
-      const LocalVector a_h = local_values(static_cast<std::size_t>(e), *model.eddy_history);
-      const double sigma_rate = sigma * model.eddy_rate;
-      eddy_element(rec.nodes, a - a_h, sigma_rate, tangent, k_local, r_local);
-      LocalMatrix unused;
-      LocalVector history_load = LocalVector::Zero();
-      eddy_element(rec.nodes, a_h, sigma_rate, false, unused, history_load);
-      f_local += history_load;
-      loaded = true;
+#pragma omp parallel num_threads(threads)
+  {
+    const int t = omp_get_thread_num();
+    double* values = values_.data();
+    double* residual = residual_.data();
+    double* load = load_.data();
+    if (t > 0) {
+      if (tangent) thread_values_[t - 1].assign(nnz, 0.0);
+      thread_residual_[t - 1].assign(n, 0.0);
+      thread_load_[t - 1].assign(n, 0.0);
+      values = thread_values_[t - 1].data();
+      residual = thread_residual_[t - 1].data();
+      load = thread_load_[t - 1].data();
     }
-    for (int i = 0; i < n; ++i) {
-      if (rec.dof[i] < 0) continue;
-#pragma omp atomic
-      residual[rec.dof[i]] += rec.sign[i] * r_local[i];
-      if (loaded) {
-#pragma omp atomic
-        load_data[rec.dof[i]] += rec.sign[i] * f_local[i];
+#pragma omp for schedule(static)
+    for (long e = 0; e < n_elements; ++e) {
+      const ElementRecord& rec = elements_[e];
+      const int nodes = rec.nodes.n_nodes();
+      const LocalVector a = local_values(static_cast<std::size_t>(e), x);
+      LocalMatrix k_local;
+      LocalVector r_local, f_local;
+      const Material& material = *model.material[rec.region];
+      const ElementSource& source = model.source[rec.region];
+      magnetostatic_element(rec.nodes, a, material, source, tangent, k_local, r_local, f_local);
+      bool loaded = source.function != nullptr || source.constant_a_per_m2 != 0.0;
+      const double sigma =
+          model.eddy_s_per_m.empty() || !model.eddy_history ? 0.0 : model.eddy_s_per_m[rec.region];
+      if (sigma > 0.0) {
+        // The history's part of the eddy term is a known source: it counts in the load too.
+        const LocalVector a_h = local_values(static_cast<std::size_t>(e), *model.eddy_history);
+        const double sigma_rate = sigma * model.eddy_rate;
+        eddy_element(rec.nodes, a - a_h, sigma_rate, tangent, k_local, r_local);
+        LocalMatrix unused;
+        LocalVector history_load = LocalVector::Zero();
+        eddy_element(rec.nodes, a_h, sigma_rate, false, unused, history_load);
+        f_local += history_load;
+        loaded = true;
       }
-      if (!tangent) continue;
-      for (int k = 0; k < n; ++k) {
-        const int at =
-            scatter_[(static_cast<std::size_t>(e) * max_element_nodes + i) * max_element_nodes + k];
-        if (at < 0) continue;
-#pragma omp atomic
-        values[at] += rec.sign[i] * rec.sign[k] * k_local(i, k);
+      for (int i = 0; i < nodes; ++i) {
+        if (rec.dof[i] < 0) continue;
+        residual[rec.dof[i]] += rec.sign[i] * r_local[i];
+        if (loaded) load[rec.dof[i]] += rec.sign[i] * f_local[i];
+        if (!tangent) continue;
+        for (int k = 0; k < nodes; ++k) {
+          const int at =
+              scatter_[(static_cast<std::size_t>(e) * max_element_nodes + i) * max_element_nodes +
+                       k];
+          if (at >= 0) values[at] += rec.sign[i] * rec.sign[k] * k_local(i, k);
+        }
       }
+    }
+    // The buffers, added in thread order (each entry by one thread).
+#pragma omp for schedule(static)
+    for (long i = 0; i < static_cast<long>(n); ++i)
+      for (int u = 0; u + 1 < threads; ++u) {
+        residual_[i] += thread_residual_[u][i];
+        load_[i] += thread_load_[u][i];
+      }
+    if (tangent) {
+#pragma omp for schedule(static)
+      for (long i = 0; i < static_cast<long>(nnz); ++i)
+        for (int u = 0; u + 1 < threads; ++u) values_[i] += thread_values_[u][i];
     }
   }
-  load_norm_ = load.norm();
+  load_norm_ = Eigen::Map<const Eigen::VectorXd>(load_.data(), n_dofs_).norm();
 }
 
 }  // namespace gapflux

@@ -1,6 +1,8 @@
 // Meshes of the demo cases: areas, sector edges, band rings, quality.
 #include <catch2/catch.hpp>
 
+#include <omp.h>
+
 #include <cmath>
 #include <numbers>
 #include <set>
@@ -208,4 +210,16 @@ TEST_CASE("the mesh forecast: triangle count within a factor 1.5, thin features 
   REQUIRE(s.forecast.warnings.size() == 1);
   CHECK_THAT(s.forecast.warnings[0], Catch::Contains("rotor.bar.bridge_thickness_mm: the bar "
                                                      "bridge is 0.06 mm wide"));
+}
+
+TEST_CASE("meshing leaves the thread count the program asked for", "[geometry]") {
+  // Gmsh sets OpenMP to one thread while it meshes (toolchain.md: 2 before, 1 after); the
+  // solver after it must run on the threads asked for.
+  omp_set_num_threads(2);
+  REQUIRE(omp_get_max_threads() == 2);
+  mesh_example("reference_radial_4p24s.toml");
+  CHECK(omp_get_max_threads() == 2);
+  omp_set_num_threads(3);
+  mesh_example("reference_radial_4p24s.toml");
+  CHECK(omp_get_max_threads() == 3);
 }

@@ -43,7 +43,8 @@ class Assembler {
   Assembler(std::vector<ElementRecord> elements, int n_dofs);
 
   // Values of the tangent (if asked) and the residual at x, and the load vector's norm.
-  // Uses OpenMP threads as set by omp_set_num_threads.
+  // Uses OpenMP threads as set by omp_set_num_threads; the same thread count gives the same
+  // sums bit for bit (each thread sums into buffers of its own, added in thread order).
   void assemble(const Eigen::VectorXd& x, const RegionModel& model, bool tangent);
 
   int n_dofs() const { return n_dofs_; }
@@ -62,6 +63,9 @@ class Assembler {
   std::vector<double> values_;
   std::vector<int> scatter_;  // per element, max_element_nodes² positions in values_ (−1 none)
   Eigen::VectorXd residual_;
+  std::vector<double> load_;
+  // Per thread beyond the first: its share of the sums (deterministic summation, no atomics).
+  std::vector<std::vector<double>> thread_values_, thread_residual_, thread_load_;
   double load_norm_ = 0.0;
 };
 
