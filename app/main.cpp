@@ -49,7 +49,8 @@ std::string unknown_command(int argc, char** argv, const std::vector<std::string
 
 int main(int argc, char** argv) {
   using namespace gapflux;
-  const std::vector<std::string> commands{"check", "mesh", "run", "sweep", "sweep-case", "collect", "mesh-cache"};
+  const std::vector<std::string> commands{"check",      "mesh",    "run",       "sweep",
+                                          "sweep-case", "collect", "mesh-cache"};
   if (const std::string word = unknown_command(argc, argv, commands); !word.empty()) {
     std::cerr << fmt::format(
         "gapflux: error: unknown command {}; the commands are {} (see "
@@ -128,10 +129,10 @@ int main(int argc, char** argv) {
   collect->add_option("DIR", sweep_dir, "sweep folder")->required();
 
   std::string cache_action = "info";
-  auto* cache = app.add_subcommand(
-      "mesh-cache",
-      "show or clear the meshes kept between runs ($GAPFLUX_MESH_CACHE, else "
-      "~/.cache/gapflux/meshes; GAPFLUX_MESH_CACHE=off turns it off)");
+  auto* cache =
+      app.add_subcommand("mesh-cache",
+                         "show or clear the meshes kept between runs ($GAPFLUX_MESH_CACHE, else "
+                         "~/.cache/gapflux/meshes; GAPFLUX_MESH_CACHE=off turns it off)");
   cache->add_option("ACTION", cache_action, "info (default) or clear")
       ->check(CLI::IsMember({"info", "clear"}));
 

@@ -190,7 +190,8 @@ std::optional<Mesh> deserialise(const std::string& bytes, const std::string& key
   m.node_on_rotor = r.vector<char>();
   m.outer_nodes = r.vector<int>();
   const std::vector<int> pairs = r.vector<int>();
-  for (std::size_t i = 0; i + 1 < pairs.size(); i += 2) m.periodic_pairs.emplace_back(pairs[i], pairs[i + 1]);
+  for (std::size_t i = 0; i + 1 < pairs.size(); i += 2)
+    m.periodic_pairs.emplace_back(pairs[i], pairs[i + 1]);
   m.origin_node = r.value<int>();
   m.stator_ring = read_ring(r);
   m.rotor_ring = read_ring(r);
@@ -284,8 +285,8 @@ CachedMesh mesh_lamination_cached(const Lamination& lam, const MeshSettings& set
       out.note = fmt::format("mesh from the cache ({})", entry.string());
       return out;
     }
-    out.note = fmt::format("the cached mesh {} is damaged: meshed again and replaced; ",
-                           entry.string());
+    out.note =
+        fmt::format("the cached mesh {} is damaged: meshed again and replaced; ", entry.string());
   }
   out.mesh = mesh_lamination(lam, settings);
   // Stored under a name of this process's own, then renamed: readers see a whole entry or none,
@@ -306,9 +307,10 @@ CachedMesh mesh_lamination_cached(const Lamination& lam, const MeshSettings& set
     if (!stored) fs::remove(temporary, ec);
   }
   out.note += stored ? fmt::format("mesh stored in the cache ({})", entry.string())
-                     : fmt::format("the mesh cache {} cannot be written (the next run meshes "
-                                   "again)",
-                                   cache_dir);
+                     : fmt::format(
+                           "the mesh cache {} cannot be written (the next run meshes "
+                           "again)",
+                           cache_dir);
   return out;
 }
 
