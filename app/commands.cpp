@@ -68,7 +68,7 @@ int command_mesh(const std::string& case_path, const std::string& out_dir,
                          options.replace ? FolderUse::replace : FolderUse::fresh);
   for (const std::string& w : p.mesh_settings.forecast.warnings)
     fmt::print(stderr, "warning: {}\n", w);
-  const Mesh mesh = cached_mesh(p.lamination, p.mesh_settings);
+  const Mesh mesh = cached_mesh(p.lamination, p.mesh_settings).mesh;
   const MeshQuality quality = mesh_quality(mesh);
   const BandMesh band = build_moving_band(mesh, 0.0);
   const std::string path = folder.path("mesh.vtu");

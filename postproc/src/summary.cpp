@@ -180,6 +180,9 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                  {"cg_iterations", s.cg_iterations},
                  {"converged", s.converged},
                  {"wall_s", s.wall_s},
+                 {"set_up_s", s.set_up_s},
+                 {"mesh_s", s.mesh_s},
+                 {"mesh_from_cache", s.mesh_from_cache},
                  {"residual_history", s.residual_history},
                  {"step_history", s.step_history}};
   if (!s.failure.empty()) j["solver"]["failure"] = s.failure;

@@ -26,10 +26,10 @@ PreparedCase prepare_case(const std::string&, Case c) {
   return p;
 }
 
-Mesh cached_mesh(const Lamination& lam, const MeshSettings& settings) {
+CachedMesh cached_mesh(const Lamination& lam, const MeshSettings& settings) {
   CachedMesh m = mesh_lamination_cached(lam, settings, mesh_cache_dir());
   if (!m.note.empty()) fmt::print(stderr, "{}\n", m.note);
-  return std::move(m.mesh);
+  return m;
 }
 
 }  // namespace gapflux

@@ -43,6 +43,7 @@ StaticStudy::StaticStudy(std::string case_path, Case c, std::string out_dir, Fol
 void StaticStudy::run() {
   wall_start_s_ = now_s();
   set_up();
+  set_up_s_ = now_s() - wall_start_s_;
   try {
     solve_and_write();
   } catch (const OutputError&) {
@@ -81,7 +82,11 @@ void StaticStudy::set_up() {
   check_supply_at_instant(case_, case_.study.time_s);
   // The case is valid: only now may the folder be locked (and, with --replace, cleared).
   folder_ = std::make_unique<RunFolder>(out_dir_, RunFolder::run_outputs(), folder_use_);
-  mesh_ = cached_mesh(lamination_, mesh_settings_);
+  const double mesh_start_s = now_s();
+  CachedMesh meshed = cached_mesh(lamination_, mesh_settings_);
+  mesh_ = std::move(meshed.mesh);
+  mesh_from_cache_ = meshed.from_cache;
+  mesh_s_ = now_s() - mesh_start_s;
   system_ = std::make_unique<MagnetostaticSystem>(mesh_, case_.study.rotor_angle_rad);
   phase_current_a_ = supply_phase_currents_a(case_.supply, case_.study.time_s);
 
@@ -193,6 +198,9 @@ void StaticStudy::write_output(const std::string& failure) {
   s.cg_iterations = report_.cg_iterations;
   s.converged = failure.empty();
   s.wall_s = now_s() - wall_start_s_;
+  s.set_up_s = set_up_s_;
+  s.mesh_s = mesh_s_;
+  s.mesh_from_cache = mesh_from_cache_;
   s.residual_history = report_.residuals();
   for (const NewtonIteration& it : report_.history) s.step_history.push_back(it.step);
   s.failure = failure;

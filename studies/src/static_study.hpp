@@ -51,6 +51,8 @@ class StaticStudy {
   NewtonReport report_;
   RunSummary summary_;
   double wall_start_s_ = 0.0;
+  double set_up_s_ = 0.0, mesh_s_ = 0.0;  // for summary.json
+  bool mesh_from_cache_ = false;
 };
 
 }  // namespace gapflux

@@ -65,6 +65,7 @@ void TransientStudy::run() {
   wall_start_s_ = now_s();
   set_up();
   const int first = open_results();
+  set_up_s_ = now_s() - wall_start_s_;
   const bool terminal = isatty(fileno(stderr));
   for (int n = first; n < grid_.steps; ++n) {
     try {
@@ -124,7 +125,11 @@ void TransientStudy::set_up() {
   // The case is valid: only now may the folder be locked (and, with --replace, cleared).
   folder_ = std::make_unique<RunFolder>(out_dir_, RunFolder::run_outputs(), folder_use_);
   if (folder_->resuming()) check_fingerprint();
-  mesh_ = cached_mesh(lamination_, mesh_settings);
+  const double mesh_start_s = now_s();
+  CachedMesh meshed = cached_mesh(lamination_, mesh_settings);
+  mesh_ = std::move(meshed.mesh);
+  mesh_from_cache_ = meshed.from_cache;
+  mesh_s_ = now_s() - mesh_start_s;
   coils_ = coil_regions(mesh_, lamination_.winding);
   grid_ = make_time_grid(case_, mesh_.stator_ring.pitch_rad);
   airgap_samples_ =
@@ -367,6 +372,9 @@ void TransientStudy::finish(const std::string& failure) {
   s.converged = failure.empty();
   s.failure = failure;
   s.wall_s = now_s() - wall_start_s_;
+  s.set_up_s = set_up_s_;
+  s.mesh_s = mesh_s_;
+  s.mesh_from_cache = mesh_from_cache_;
   // What the supply did, over the last whole periods; written even after a failure, from the
   // steps that finished.
   const RunRecord record = read_record(done);

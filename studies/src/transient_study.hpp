@@ -135,6 +135,8 @@ class TransientStudy {
   int factorizations_last_ = 0;
   int steps_done_ = 0;
   double wall_start_s_ = 0.0;
+  double set_up_s_ = 0.0, mesh_s_ = 0.0;  // for summary.json
+  bool mesh_from_cache_ = false;
   std::vector<std::pair<double, int>> snapshot_steps_;  // (time, step) of each field snapshot
   // Bytes the last step added to results.h5 and the last snapshot's size (the disk-room guard).
   std::uint64_t step_bytes_ = 0, snapshot_bytes_ = 0;

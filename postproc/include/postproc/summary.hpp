@@ -88,6 +88,9 @@ struct RunSummary {
   int cg_iterations = 0;          // on earlier factors
   bool converged = false;
   double wall_s = 0.0;
+  double set_up_s = 0.0;  // from the study's start to its first solve (case, mesh, system)
+  double mesh_s = 0.0;    // of which the mesh (read from the cache or made)
+  bool mesh_from_cache = false;
   std::vector<double> residual_history;
   std::vector<double> step_history;  // line-search factor of each Newton step
   std::string failure;               // empty when the run succeeded

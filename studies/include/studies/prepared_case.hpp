@@ -7,6 +7,7 @@
 #include "cases/case.hpp"
 #include "geometry/lamination.hpp"
 #include "geometry/mesh.hpp"
+#include "geometry/mesh_cache.hpp"
 #include "geometry/mesher.hpp"
 #include "solver/cage_parameters.hpp"
 #include "solver/time_grid.hpp"
@@ -26,6 +27,6 @@ PreparedCase prepare_case(const std::string& case_path, Case c);
 
 // The lamination's mesh, from the mesh cache (geometry/mesh_cache.hpp) when it holds it; says on
 // stderr where it came from.
-Mesh cached_mesh(const Lamination& lam, const MeshSettings& settings);
+CachedMesh cached_mesh(const Lamination& lam, const MeshSettings& settings);
 
 }  // namespace gapflux
