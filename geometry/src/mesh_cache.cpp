@@ -55,7 +55,7 @@ struct Writer {
   template <typename T>
   void vector(const std::vector<T>& v) {
     value(static_cast<std::uint64_t>(v.size()));
-    out.append(reinterpret_cast<const char*>(v.data()), v.size() * sizeof(T));
+    if (!v.empty()) out.append(reinterpret_cast<const char*>(v.data()), v.size() * sizeof(T));
   }
   void text(const std::string& s) {
     value(static_cast<std::uint64_t>(s.size()));
@@ -86,7 +86,7 @@ struct Reader {
       return {};
     }
     std::vector<T> v(n);
-    std::memcpy(v.data(), in.data() + at, n * sizeof(T));
+    if (n > 0) std::memcpy(v.data(), in.data() + at, n * sizeof(T));  // an empty v has no data()
     at += n * sizeof(T);
     return v;
   }
