@@ -8,13 +8,15 @@ find_package(fmt REQUIRED)
 find_package(spdlog REQUIRED)
 find_package(CLI11 CONFIG REQUIRED)
 
-# SuiteSparse (CHOLMOD) ships neither a CMake config nor a .pc file in Debian 12.
+# SuiteSparse (CHOLMOD; UMFPACK for the complex time-harmonic systems) ships neither a CMake config nor a .pc file in Debian 12.
 find_path(SUITESPARSE_INCLUDE_DIR cholmod.h PATH_SUFFIXES suitesparse REQUIRED)
 find_library(CHOLMOD_LIBRARY cholmod REQUIRED)
+find_library(UMFPACK_LIBRARY umfpack REQUIRED)
 find_library(SUITESPARSECONFIG_LIBRARY suitesparseconfig REQUIRED)
 add_library(gapflux_suitesparse INTERFACE IMPORTED)
 target_include_directories(gapflux_suitesparse SYSTEM INTERFACE ${SUITESPARSE_INCLUDE_DIR})
-target_link_libraries(gapflux_suitesparse INTERFACE ${CHOLMOD_LIBRARY} ${SUITESPARSECONFIG_LIBRARY})
+target_link_libraries(gapflux_suitesparse INTERFACE ${CHOLMOD_LIBRARY} ${UMFPACK_LIBRARY}
+                      ${SUITESPARSECONFIG_LIBRARY})
 
 # Gmsh's C++ API: no CMake config or .pc file either.
 find_path(GMSH_INCLUDE_DIR gmsh.h REQUIRED)

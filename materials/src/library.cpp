@@ -3,7 +3,9 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <array>
 #include <cmath>
+#include <numbers>
 
 namespace gapflux {
 
@@ -19,6 +21,29 @@ void Material::reluctivity(double b_squared, double& nu, double& dnu_db2) const 
 double Material::energy_density(double b_tesla) const {
   if (curve) return curve->energy_density(b_tesla);
   return 0.5 * b_tesla * b_tesla / (mu0 * relative_permeability);
+}
+
+double Material::effective_reluctivity(double b_peak_tesla) const {
+  double nu = 0.0, dnu = 0.0;
+  reluctivity(0.0, nu, dnu);
+  if (!curve || b_peak_tesla < 1e-9) return nu;
+  // ⟨w(B̂·sin θ)⟩ over θ in [0, π/2] (a quarter period holds every value), Gauss–Legendre with
+  // 12 points: w is smooth except at the curve's table points, where it is still C¹.
+  static constexpr std::array<double, 6> node{0.1252334085114689, 0.3678314989981802,
+                                              0.5873179542866175, 0.7699026741943047,
+                                              0.9041172563704749, 0.9815606342467192};
+  static constexpr std::array<double, 6> weight{0.2491470458134028, 0.2334925365383548,
+                                                0.2031674267230659, 0.1600783285433462,
+                                                0.1069393259953184, 0.0471753363865118};
+  constexpr double quarter = std::numbers::pi / 4.0;  // half the interval [0, π/2]
+  double mean = 0.0;
+  for (std::size_t i = 0; i < node.size(); ++i)
+    for (double sign : {-1.0, 1.0}) {
+      const double theta = quarter * (1.0 + sign * node[i]);
+      mean += weight[i] * energy_density(b_peak_tesla * std::sin(theta));
+    }
+  mean *= 0.5;  // the weights sum to 2 over [−1, 1]: the mean over the interval
+  return 4.0 * mean / (b_peak_tesla * b_peak_tesla);
 }
 
 double Material::conductivity_at(double temperature_c) const {

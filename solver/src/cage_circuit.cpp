@@ -61,11 +61,15 @@ void CageCircuit::prepare(double) {
 }
 
 Eigen::MatrixXd CageCircuit::incidence() const {
+  return cage_incidence(cage_);
+}
+
+Eigen::MatrixXd cage_incidence(const CageParameters& cage) {
   // (D·i_r)_k = i_r,k − i_r,k−1; the segment before bar 0 is the sector's last one, signed.
-  const int n = cage_.bars;
+  const int n = cage.bars;
   Eigen::MatrixXd d = Eigen::MatrixXd::Identity(n, n);
   for (int k = 1; k < n; ++k) d(k, k - 1) -= 1.0;
-  d(0, n - 1) -= cage_.antiperiodic ? -1.0 : 1.0;
+  d(0, n - 1) -= cage.antiperiodic ? -1.0 : 1.0;
   return d;
 }
 

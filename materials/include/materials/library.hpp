@@ -33,6 +33,13 @@ struct Material {
   // ν and dν/d(B²) at B² (T²).
   void reluctivity(double b_squared, double& nu, double& dnu_db2) const;
   double energy_density(double b_tesla) const;
+  // The effective reluctivity of a time-harmonic solve (m/H) for a flux density alternating
+  // sinusoidally with peak `b_peak_tesla`: the constant ν whose field stores the same magnetic
+  // energy averaged over a period, ν_eff·B̂²/4 = ⟨w(B̂·|sin ωt|)⟩ with w(B) = ∫₀ᴮ H dB — the
+  // energy-equivalent choice among those compared by Luomi, Niemenmaa and Arkkio (ICEM 1986,
+  // "On the use of effective reluctivities in magnetic field analysis of induction motors fed
+  // from a sinusoidal voltage source"; from memory). Equals ν for a linear material.
+  double effective_reluctivity(double b_peak_tesla) const;
   double conductivity_at(double temperature_c) const;
 };
 

@@ -40,6 +40,10 @@ struct CageParameters {
 Eigen::MatrixXd bar_coupling(const Assembler& assembler, const std::vector<int>& bar_of_region,
                              int bars, std::vector<double>& bar_area_m2);
 
+// The ring's incidence D (bars × segments): (D·i_r)_k = i_r,k − i_r,k−1, the segment before bar 0
+// being the sector's last one with the sector's sign.
+Eigen::MatrixXd cage_incidence(const CageParameters& cage);
+
 class CageCircuit : public CoupledCircuit {
  public:
   CageCircuit(const CageParameters& cage, Eigen::MatrixXd coupling, std::vector<double> bar_area_m2,
