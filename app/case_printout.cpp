@@ -155,19 +155,23 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
       to_string(c.mesh.symmetry), mesh.forecast.triangles / 1e3);
   const StudySpec& st = c.study;
   const bool stepping = st.kind == StudyKind::time_stepping;
-  fmt::print(out, "\n[study]\nkind = \"{}\"\nrotor_angle_deg = {:g}\ntime_s = {:g}\n",
-             stepping ? "time_stepping" : "static", st.rotor_angle_rad * to_deg, st.time_s);
-  if (stepping) {
+  const char* kind = stepping                              ? "time_stepping"
+                     : st.kind == StudyKind::time_harmonic ? "time_harmonic"
+                                                           : "static";
+  fmt::print(out, "\n[study]\nkind = \"{}\"\nrotor_angle_deg = {:g}\ntime_s = {:g}\n", kind,
+             st.rotor_angle_rad * to_deg, st.time_s);
+  if (stepping)
+    fmt::print(out, "steps_per_period = {}\nperiods = {:g}\ndiscard_periods = {:g}\n",
+               st.steps_per_period, st.periods, st.discard_periods);
+  if (st.kind != StudyKind::static_field) {
     const char* motion = st.motion == Motion::slip    ? "slip"
                          : st.motion == Motion::speed ? "speed"
                                                       : "locked";
-    fmt::print(out,
-               "steps_per_period = {}\nperiods = {:g}\ndiscard_periods = {:g}\nmotion = \"{}\"\n",
-               st.steps_per_period, st.periods, st.discard_periods, motion);
+    fmt::print(out, "motion = \"{}\"\n", motion);
     if (st.motion == Motion::slip) fmt::print(out, "slip = {:g}\n", st.slip);
     if (st.motion == Motion::speed) fmt::print(out, "speed_rpm = {:g}\n", st.speed_rpm);
-    fmt::print(out, "band_aligned_steps = {}\n", st.band_aligned_steps);
   }
+  if (stepping) fmt::print(out, "band_aligned_steps = {}\n", st.band_aligned_steps);
   if (c.rotor_currents.bar_rms_a > 0)
     fmt::print(out,
                "\n[rotor_currents]  # imposed, not induced\nbar_rms_a = {:g}\nangle_deg = {:g}\n",

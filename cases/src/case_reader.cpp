@@ -323,19 +323,12 @@ MeshSpec parse_mesh(std::optional<TableReader> t) {
 StudySpec parse_study(std::optional<TableReader> t) {
   StudySpec s;
   if (!t) return s;
-  s.kind = static_cast<StudyKind>(choice(*t, "kind", {"static", "time_stepping"}, std::size_t{0}));
+  s.kind = static_cast<StudyKind>(
+      choice(*t, "kind", {"static", "time_stepping", "time_harmonic"}, std::size_t{0}));
   s.rotor_angle_rad = number_in(*t, "rotor_angle_deg", 0.0, -360.0, 360.0, "degrees") * deg;
   s.time_s = number_in(*t, "time_s", 0.0, -1e6, 1e6, "s");
   std::vector<std::pair<std::string, std::string>> not_applicable;
-  if (s.kind == StudyKind::time_stepping) {
-    s.steps_per_period = integer_in(*t, "steps_per_period", 60, 4, 100000);
-    s.periods = number_in(*t, "periods", 1.0, 0.0, 10000.0, "periods");
-    if (s.periods <= 0.0) throw t->error("periods", "must be greater than 0");
-    s.discard_periods = number_in(*t, "discard_periods", 0.0, 0.0, 10000.0, "periods");
-    if (s.discard_periods >= s.periods)
-      throw t->error(
-          "discard_periods",
-          fmt::format("must be below periods ({}): something must be left to analyse", s.periods));
+  if (s.kind != StudyKind::static_field) {
     s.motion =
         static_cast<Motion>(choice(*t, "motion", {"slip", "speed", "locked"}, std::size_t{0}));
     if (s.motion == Motion::slip) {
@@ -348,6 +341,21 @@ StudySpec parse_study(std::optional<TableReader> t) {
       not_applicable.emplace_back("slip", "a locked rotor does not turn");
       not_applicable.emplace_back("speed_rpm", "a locked rotor does not turn");
     }
+  }
+  if (s.kind == StudyKind::time_harmonic) {
+    for (const char* k : {"steps_per_period", "periods", "discard_periods", "band_aligned_steps",
+                          "time_scheme", "steady_state_tolerance_pct"})
+      not_applicable.emplace_back(
+          k, "a time-harmonic study solves the steady state at one frequency, without steps");
+  } else if (s.kind == StudyKind::time_stepping) {
+    s.steps_per_period = integer_in(*t, "steps_per_period", 60, 4, 100000);
+    s.periods = number_in(*t, "periods", 1.0, 0.0, 10000.0, "periods");
+    if (s.periods <= 0.0) throw t->error("periods", "must be greater than 0");
+    s.discard_periods = number_in(*t, "discard_periods", 0.0, 0.0, 10000.0, "periods");
+    if (s.discard_periods >= s.periods)
+      throw t->error(
+          "discard_periods",
+          fmt::format("must be below periods ({}): something must be left to analyse", s.periods));
     s.band_aligned_steps = t->boolean("band_aligned_steps").value_or(false);
     s.time_scheme = static_cast<TimeScheme>(
         choice(*t, "time_scheme", {"backward_euler", "bdf2"}, std::size_t{1}));
@@ -415,10 +423,11 @@ Case read_case_text(std::string_view text, const std::string& file_name) {
   c.mesh = parse_mesh(root.table("mesh"));
   c.study = parse_study(root.table("study"));
   c.rotor_currents = parse_rotor_currents(root.table("rotor_currents"));
-  if (c.supply.voltage_fed() && c.study.kind != StudyKind::time_stepping)
+  if (c.supply.voltage_fed() && c.study.kind == StudyKind::static_field)
     throw c.sources.error("supply.feed",
-                          "a voltage feed needs [study] kind = \"time_stepping\": the flux "
-                          "follows the voltage's integral, which one instant does not define");
+                          "a voltage feed needs [study] kind = \"time_stepping\" or "
+                          "\"time_harmonic\": the flux follows the voltage's integral, which one "
+                          "instant does not define");
   if (c.rotor_currents.bar_rms_a > 0.0 && c.rotor.kind != RotorKind::cage)
     throw c.sources.error("rotor_currents.bar_rms_a",
                           "a smooth rotor has no bars to carry currents");

@@ -8,6 +8,7 @@
 
 #include "analysis_printout.hpp"
 #include "cases/input_error.hpp"
+#include "harmonic_study.hpp"
 #include "postproc/baseline.hpp"
 #include "static_study.hpp"
 #include "studies/interrupts.hpp"
@@ -65,10 +66,15 @@ RunSummary run_study(const std::string& case_path, const Case& c, const std::str
   const bool stepping = c.study.kind == StudyKind::time_stepping;
   if (options.folder_use == FolderUse::resume && !stepping)
     throw InputError(case_path, {}, "study.kind",
-                     "--resume continues a time-stepping study; this case is static");
+                     "--resume continues a time-stepping study; this case is not one");
   if (options.baseline && !stepping)
     throw InputError(case_path, {}, "study.kind",
-                     "--baseline compares time-stepping studies; this case is static");
+                     "--baseline compares time-stepping studies; this case is not one");
+  if (c.study.kind == StudyKind::time_harmonic) {
+    HarmonicStudy study(case_path, c, out_dir, options.folder_use);
+    study.run();
+    return study.summary();
+  }
   if (!stepping) {
     StaticStudy study(case_path, c, out_dir, options.folder_use);
     study.run();

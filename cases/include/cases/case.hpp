@@ -199,7 +199,7 @@ struct MeshSpec {
 // Discretisation of d/dt in the circuit equations: backward Euler (first order) or the
 // two-step backward difference formula (second order).
 enum class TimeScheme { backward_euler, bdf2 };
-enum class StudyKind { static_field, time_stepping };
+enum class StudyKind { static_field, time_stepping, time_harmonic };
 enum class Motion { slip, speed, locked };
 
 struct StudySpec {

@@ -1,0 +1,63 @@
+#pragma once
+// One time-harmonic study: the motor in its steady state at the supply's fundamental, the rotor
+// held at one position, the cage at the case's slip (solver/harmonic_field.hpp). An unbalanced
+// supply is split into its sequences (Fortescue): the positive one is solved at slip s with the
+// effective reluctivity iterated to convergence, the negative one at slip 2 − s on that same
+// reluctivity state, and the two are added. run() shows the steps: set up, solve, write output.
+#include <Eigen/Core>
+#include <memory>
+#include <string>
+
+#include "cases/case.hpp"
+#include "geometry/lamination.hpp"
+#include "geometry/mesh.hpp"
+#include "materials/library.hpp"
+#include "postproc/summary.hpp"
+#include "solver/cage_parameters.hpp"
+#include "solver/harmonic_field.hpp"
+#include "solver/magnetostatic_system.hpp"
+#include "solver/winding_sources.hpp"
+#include "studies/run_folder.hpp"
+
+namespace gapflux {
+
+class HarmonicStudy {
+ public:
+  HarmonicStudy(std::string case_path, Case c, std::string out_dir, FolderUse use);
+  // Throws InputError (bad input) or NumericalError.
+  void run();
+  const RunSummary& summary() const { return summary_; }  // after run()
+
+ private:
+  void set_up();
+  void solve();
+  void write_output();
+
+  // The branch sources' fundamental phasors (complex amplitudes) over one supply period.
+  Eigen::Vector3cd source_phasors() const;
+
+  std::string case_path_, out_dir_;
+  FolderUse folder_use_ = FolderUse::fresh;
+  std::unique_ptr<RunFolder> folder_;
+  Case case_;
+  Lamination lamination_;
+  Mesh mesh_;
+  RegionMaterials materials_;
+  RegionModel model_;
+  CoilRegions coils_;
+  std::unique_ptr<MagnetostaticSystem> system_;
+  HarmonicWinding winding_;
+  std::optional<CageValues> cage_values_;
+  std::unique_ptr<HarmonicCage> cage_;
+  std::vector<int> bar_of_region_;
+  double slip_ = 0.0, omega_ = 0.0;
+  Eigen::Vector3cd source_;  // the supply's fundamental, per branch
+  Eigen::Vector3cd source_positive_, source_negative_;
+  HarmonicState positive_, negative_;
+  bool has_negative_ = false;
+  RunSummary summary_;
+  double wall_start_s_ = 0.0, set_up_s_ = 0.0, mesh_s_ = 0.0, solve_s_ = 0.0;
+  bool mesh_from_cache_ = false;
+};
+
+}  // namespace gapflux
