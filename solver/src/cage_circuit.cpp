@@ -7,14 +7,18 @@
 
 namespace gapflux {
 
+int bar_of_element(const ElementRecord& rec, const std::vector<int>& bar_of_region) {
+  return rec.region >= 0 && rec.region < static_cast<int>(bar_of_region.size())
+             ? bar_of_region[rec.region]
+             : -1;
+}
+
 Eigen::MatrixXd bar_coupling(const Assembler& assembler, const std::vector<int>& bar_of_region,
                              int bars, std::vector<double>& bar_area_m2) {
   Eigen::MatrixXd c = Eigen::MatrixXd::Zero(assembler.n_dofs(), bars);
   bar_area_m2.assign(bars, 0.0);
   for (const ElementRecord& rec : assembler.elements()) {
-    const int k = rec.region >= 0 && rec.region < static_cast<int>(bar_of_region.size())
-                      ? bar_of_region[rec.region]
-                      : -1;
+    const int k = bar_of_element(rec, bar_of_region);
     if (k < 0) continue;
     const LocalVector integrals = shape_integrals(rec.nodes);
     for (int i = 0; i < rec.nodes.n_nodes(); ++i) {
@@ -143,9 +147,7 @@ BarFieldResult bar_field(const Assembler& assembler, const std::vector<int>& bar
   double values[max_element_nodes];
   for (std::size_t e = 0; e < assembler.elements().size(); ++e) {
     const ElementRecord& rec = assembler.elements()[e];
-    const int k = rec.region >= 0 && rec.region < static_cast<int>(bar_of_region.size())
-                      ? bar_of_region[rec.region]
-                      : -1;
+    const int k = bar_of_element(rec, bar_of_region);
     if (k < 0) continue;
     const LocalVector a =
         assembler.local_values(e, x) - assembler.local_values(e, cage.last_history());

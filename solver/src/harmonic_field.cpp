@@ -70,12 +70,6 @@ Eigen::SparseMatrix<Complex> assemble_harmonic(const Assembler& assembler, const
   return a;
 }
 
-LocalVector local_part(const Assembler& assembler, std::size_t e, const Eigen::VectorXcd& x,
-                       bool imaginary) {
-  const Eigen::VectorXd part = imaginary ? Eigen::VectorXd(x.imag()) : Eigen::VectorXd(x.real());
-  return assembler.local_values(e, part);
-}
-
 // B̂ at every element's centroid, and the peak of |B(t)| there.
 std::vector<double> element_b_peaks(const Assembler& assembler, const Eigen::VectorXcd& x) {
   const Eigen::VectorXd re = x.real(), im = x.imag();
@@ -262,14 +256,13 @@ HarmonicCageLoss harmonic_cage_loss(const Assembler& assembler,
   HarmonicCageLoss out;
   out.bar_current_density_amplitude.assign(assembler.elements().size(), 0.0);
   double values[max_element_nodes];
+  const Eigen::VectorXd x_re = state.x.real(), x_im = state.x.imag();  // once, not per element
   for (std::size_t e = 0; e < assembler.elements().size(); ++e) {
     const ElementRecord& rec = assembler.elements()[e];
-    const int k = rec.region >= 0 && rec.region < static_cast<int>(bar_of_region.size())
-                      ? bar_of_region[rec.region]
-                      : -1;
+    const int k = bar_of_element(rec, bar_of_region);
     if (k < 0) continue;
-    const LocalVector re = local_part(assembler, e, state.x, false);
-    const LocalVector im = local_part(assembler, e, state.x, true);
+    const LocalVector re = assembler.local_values(e, x_re);
+    const LocalVector im = assembler.local_values(e, x_im);
     const auto density = [&](double xi, double eta) {
       shape_values(rec.nodes.order, xi, eta, values);
       Complex a = 0.0;

@@ -35,6 +35,9 @@ struct CageParameters {
   double ring_segment_inductance_h = 0.0;
 };
 
+// The bar (of the sector) an element belongs to, −1 when none.
+int bar_of_element(const ElementRecord& rec, const std::vector<int>& bar_of_region);
+
 // Column k: c_k = ∫ N dS over bar k's triangles (with the DOF signs); `bar_of_region` gives each
 // mesh region's bar number in the sector (−1: not a bar). Also the bars' meshed areas.
 Eigen::MatrixXd bar_coupling(const Assembler& assembler, const std::vector<int>& bar_of_region,
