@@ -343,8 +343,9 @@ StudySpec parse_study(std::optional<TableReader> t) {
     }
   }
   if (s.kind == StudyKind::time_harmonic) {
-    for (const char* k : {"steps_per_period", "periods", "discard_periods", "band_aligned_steps",
-                          "time_scheme", "steady_state_tolerance_pct"})
+    for (const char* k :
+         {"steps_per_period", "periods", "discard_periods", "band_aligned_steps", "time_scheme",
+          "steady_state_tolerance_pct", "start", "stop_when_settled"})
       not_applicable.emplace_back(
           k, "a time-harmonic study solves the steady state at one frequency, without steps");
   } else if (s.kind == StudyKind::time_stepping) {
@@ -361,10 +362,13 @@ StudySpec parse_study(std::optional<TableReader> t) {
         choice(*t, "time_scheme", {"backward_euler", "bdf2"}, std::size_t{1}));
     s.steady_state_tolerance_pct =
         number_in(*t, "steady_state_tolerance_pct", 0.5, 1e-6, 100.0, "%");
+    s.start =
+        static_cast<StartKind>(choice(*t, "start", {"cold", "time_harmonic"}, std::size_t{0}));
+    s.stop_when_settled = t->boolean("stop_when_settled").value_or(false);
   } else {
-    for (const char* k :
-         {"steps_per_period", "periods", "discard_periods", "motion", "slip", "speed_rpm",
-          "band_aligned_steps", "time_scheme", "steady_state_tolerance_pct"})
+    for (const char* k : {"steps_per_period", "periods", "discard_periods", "motion", "slip",
+                          "speed_rpm", "band_aligned_steps", "time_scheme",
+                          "steady_state_tolerance_pct", "start", "stop_when_settled"})
       not_applicable.emplace_back(
           k, "a static study solves one instant; use kind = \"time_stepping\"");
   }
@@ -428,6 +432,12 @@ Case read_case_text(std::string_view text, const std::string& file_name) {
                           "a voltage feed needs [study] kind = \"time_stepping\" or "
                           "\"time_harmonic\": the flux follows the voltage's integral, which one "
                           "instant does not define");
+  if (c.study.start == StartKind::time_harmonic && !c.supply.voltage_fed() &&
+      !(c.rotor.kind == RotorKind::cage && c.rotor.bar_currents == BarCurrents::induced))
+    throw c.sources.error("study.start",
+                          "\"time_harmonic\" starts what has memory — an induced cage or a "
+                          "voltage feed — and this case has neither; each of its steps stands "
+                          "alone, so leave start out");
   if (c.rotor_currents.bar_rms_a > 0.0 && c.rotor.kind != RotorKind::cage)
     throw c.sources.error("rotor_currents.bar_rms_a",
                           "a smooth rotor has no bars to carry currents");

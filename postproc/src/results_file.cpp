@@ -308,6 +308,14 @@ long ResultsFile::read_long_attribute(const std::string& object, const std::stri
   return value;
 }
 
+bool ResultsFile::has_attribute(const std::string& object, const std::string& name) const {
+  bool found = false;
+  guarded(state_->path, "look for attribute " + name, [&] {
+    with_object(state_->file, object, [&](H5::H5Object& o) { found = o.attrExists(name); });
+  });
+  return found;
+}
+
 std::string ResultsFile::read_string_attribute(const std::string& object,
                                                const std::string& name) const {
   std::string value;

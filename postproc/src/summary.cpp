@@ -183,9 +183,14 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                  {"set_up_s", s.set_up_s},
                  {"mesh_s", s.mesh_s},
                  {"mesh_from_cache", s.mesh_from_cache},
+                 {"start", s.start.empty() ? json(nullptr) : json(s.start)},
                  {"residual_history", s.residual_history},
                  {"step_history", s.step_history}};
   if (!s.failure.empty()) j["solver"]["failure"] = s.failure;
+  if (s.start == "time_harmonic") {
+    j["solver"]["start_harmonic_solves"] = s.start_harmonic_solves;
+    j["solver"]["start_harmonic_s"] = s.start_harmonic_s;
+  }
   if (s.time_stepping) {
     j["study"] = {{"kind", "time_stepping"},
                   {"dt_s", s.dt_s},
@@ -218,13 +223,22 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
         {"last_change_pct", ss.change_pct.empty() ? json(nullptr) : json(ss.change_pct.back())},
         {"period_dc_pct", ss.dc_pct},
         {"last_dc_pct", ss.dc_pct.empty() ? json(nullptr) : json(ss.dc_pct.back())},
+        {"period_torque_change_pct", ss.torque_change_pct},
+        {"period_cage_change_pct", ss.cage_change_pct},
+        {"last_worst_pct", ss.change_pct.empty() ? json(nullptr) : json(ss.last_worst_pct())},
         {"tolerance_pct", ss.tolerance_pct},
         {"reached", ss.reached},
         {"measure",
          "per whole period from the first step: the largest change of a phase's fundamental "
-         "flux-linkage phasor from the period before, and the largest DC part of a phase's flux "
-         "linkage, in % of the largest fundamental amplitude; reached when both are below the "
-         "tolerance in the last period"}};
+         "flux-linkage phasor from the period before and the largest DC part of a phase's flux "
+         "linkage, in % of the largest fundamental amplitude; the change of the mean torque, in % "
+         "of the period's RMS torque; with an induced cage, the change of the magnitudes of the "
+         "forward and backward parts of its current wave (pole-pair order, stator frame), in % "
+         "of the larger; reached when all are below the tolerance in the last period"}};
+    if (s.settled_stop)
+      j["steady_state"]["stopped_when_settled"] = {{"settled", s.settled_at_period > 0},
+                                                   {"periods_run", s.periods_run},
+                                                   {"periods_allowed", s.periods_allowed}};
   }
   if (s.torque_available) {
     json harmonics = json::array();

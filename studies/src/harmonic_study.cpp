@@ -19,31 +19,16 @@
 #include "solver/supply_currents.hpp"
 #include "solver/winding_resistance.hpp"
 #include "studies/prepared_case.hpp"
+#include "supply_sequences.hpp"
 #include "version.hpp"
 
 namespace gapflux {
 namespace {
 
 constexpr double pi = std::numbers::pi;
-const Complex a_op = std::polar(1.0, 2.0 * pi / 3.0);  // Fortescue's operator
 
 double now_s() {
   return std::chrono::duration<double>(std::chrono::steady_clock::now().time_since_epoch()).count();
-}
-
-struct Sequences {
-  Complex zero, positive, negative;
-};
-// Of a phase (or branch) set a, b, c (Fortescue): X1 = (Xa + a·Xb + a²·Xc)/3 and so on.
-Sequences sequences_of(const Eigen::Vector3cd& x) {
-  return {(x[0] + x[1] + x[2]) / 3.0, (x[0] + a_op * x[1] + a_op * a_op * x[2]) / 3.0,
-          (x[0] + a_op * a_op * x[1] + a_op * x[2]) / 3.0};
-}
-Eigen::Vector3cd positive_set(Complex x1) {
-  return {x1, a_op * a_op * x1, a_op * x1};
-}
-Eigen::Vector3cd negative_set(Complex x2) {
-  return {x2, a_op * x2, a_op * a_op * x2};
 }
 
 double rms(Complex amplitude) {
@@ -58,20 +43,6 @@ double mean_torque_nm(const MagnetostaticSystem& system, const Eigen::VectorXcd&
                       double stack_m) {
   return 0.5 * (arkkio_torque_nm(system.assembler(), x.real(), system.mesh(), stack_m) +
                 arkkio_torque_nm(system.assembler(), x.imag(), system.mesh(), stack_m));
-}
-
-double slip_of(const Case& c) {
-  switch (c.study.motion) {
-    case Motion::slip:
-      return c.study.slip;
-    case Motion::locked:
-      return 1.0;
-    case Motion::speed: {
-      const double sync_rpm = 60.0 * c.supply.frequency_hz / c.machine.pole_pairs();
-      return (sync_rpm - c.study.speed_rpm) / sync_rpm;
-    }
-  }
-  return 0.0;
 }
 
 }  // namespace
@@ -130,40 +101,19 @@ void HarmonicStudy::set_up() {
     cage_->coupling = bar_coupling(system_->assembler(), bar_of_region_, cage_->parameters.bars,
                                    cage_->bar_area_m2);
   }
-  source_ = source_phasors();
-  const Sequences seq = sequences_of(source_);
-  source_positive_ = positive_set(seq.positive);
-  source_negative_ = negative_set(seq.negative);
-  has_negative_ = std::abs(seq.negative) > 1e-9 * std::abs(seq.positive);
-}
-
-Eigen::Vector3cd HarmonicStudy::source_phasors() const {
-  // The fundamental of what the supply imposes on each branch, by a DFT over one period (its
-  // harmonics, which a single-frequency solve cannot carry, drop out here).
-  const int samples = 720;
-  const double period_s = 1.0 / case_.supply.frequency_hz;
-  Eigen::Vector3cd sum = Eigen::Vector3cd::Zero();
-  for (int n = 0; n < samples; ++n) {
-    const double t = case_.study.time_s + period_s * n / samples;
-    const std::array<double, 3> v = winding_.voltage_fed ? branch_source_voltages_v(case_.supply, t)
-                                                         : supply_phase_currents_a(case_.supply, t);
-    const Complex turn = std::polar(1.0, -omega_ * (t - case_.study.time_s));
-    for (int k = 0; k < 3; ++k) sum[k] += v[k] * turn;
-  }
-  return sum * (2.0 / samples);
+  // The fundamental of the supply, referred to the start instant, where the rotor is held.
+  source_ = supply_fundamental(case_.supply, winding_.voltage_fed, case_.study.time_s);
 }
 
 void HarmonicStudy::solve() {
   const double start_s = now_s();
-  HarmonicSettings settings;
-  winding_.source = source_positive_;
-  positive_ =
-      solve_harmonic(system_->assembler(), model_, winding_, cage_.get(), omega_, slip_, settings);
-  if (has_negative_) {
-    winding_.source = source_negative_;
-    negative_ = solve_harmonic(system_->assembler(), model_, winding_, cage_.get(), omega_,
-                               2.0 - slip_, settings, &positive_.reluctivity);
-  }
+  SequenceFields fields =
+      solve_sequences(system_->assembler(), model_, winding_, cage_.get(), omega_, slip_, source_);
+  positive_ = std::move(fields.positive);
+  negative_ = std::move(fields.negative);
+  has_negative_ = fields.has_negative;
+  source_positive_ = fields.source_positive;
+  source_negative_ = fields.source_negative;
   solve_s_ = now_s() - start_s;
 }
 

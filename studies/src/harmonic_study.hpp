@@ -33,9 +33,6 @@ class HarmonicStudy {
   void solve();
   void write_output();
 
-  // The branch sources' fundamental phasors (complex amplitudes) over one supply period.
-  Eigen::Vector3cd source_phasors() const;
-
   std::string case_path_, out_dir_;
   FolderUse folder_use_ = FolderUse::fresh;
   std::unique_ptr<RunFolder> folder_;

@@ -4,6 +4,8 @@
 #include <fmt/format.h>
 
 #include <cmath>
+#include <complex>
+#include <numbers>
 
 #include "transient_study.hpp"
 
@@ -18,7 +20,7 @@ void TransientStudy::set_up_cage() {
 }
 
 void TransientStudy::start_cage(MagnetostaticSystem& system, const RegionModel& model,
-                                const NewtonSettings& settings) {
+                                const NewtonSettings& settings, bool cold) {
   std::vector<double> areas;
   Eigen::MatrixXd coupling =
       bar_coupling(system.assembler(), bar_of_region_, cage_values_.circuit.bars, areas);
@@ -42,8 +44,10 @@ void TransientStudy::start_cage(MagnetostaticSystem& system, const RegionModel& 
   // A cold start: the bars are switched on in the field the stator makes at the start without
   // them (a voltage feed's start-up has just solved it), so they carry no current at first; the
   // cage's own transient then decays with the rotor's time constant.
-  if (!circuit_) system.solve(model, settings);
-  cage_->set_history({system.x()}, {});
+  if (cold) {
+    if (!circuit_) system.solve(model, settings);
+    cage_->set_history({system.x()}, {});
+  }
   // What the cage is, once per run: its circuit values and its bar triangles' areas.
   const CageParameters& c = cage_values_.circuit;
   h5_->write("cage/bar_triangle_area", bar_triangle_areas(), "m^2");
@@ -83,7 +87,7 @@ void TransientStudy::add_eddy_currents(RegionModel& model) const {
   model.eddy_history = &cage_->eddy_history();
 }
 
-void TransientStudy::write_cage_step(const MagnetostaticSystem& system) {
+void TransientStudy::write_cage_step(const MagnetostaticSystem& system, double rotor_angle_rad) {
   const CageCircuit::StepResult& r = cage_->last();
   const BarFieldResult bars = bar_field(system.assembler(), bar_of_region_, system.x(), *cage_);
   bar_density_ = bars.current_density_a_per_m2;
@@ -95,6 +99,16 @@ void TransientStudy::write_cage_step(const MagnetostaticSystem& system) {
     return std::vector<double>(v.data(), v.data() + v.size());
   };
   h5_->append_row("steps/bar_current", row(r.bar_current_a), "A");
+  // The bar currents' wave of the pole-pair order in the stator's frame (the steady-state
+  // measure): bar k of the sector sits at (k + ½)·2π/bars + the rotor's angle.
+  const CageParameters& c = cage_values_.circuit;
+  const int p = case_.machine.pole_pairs();
+  std::complex<double> wave = 0.0;
+  for (int k = 0; k < c.bars; ++k) {
+    const double theta = (k + 0.5) * 2.0 * std::numbers::pi / c.bars_total + rotor_angle_rad;
+    wave += r.bar_current_a[k] * std::polar(2.0 / c.bars, -p * theta);
+  }
+  h5_->append_row("steps/cage_wave", {wave.real(), wave.imag()}, "A");
   h5_->append_row("steps/bar_voltage", row(r.bar_voltage_v), "V");
   h5_->append_row("steps/ring_current", row(r.ring_current_a), "A");
   h5_->append_row("steps/cage_loss", {sectors * bars.loss_w, ring_w}, "W");

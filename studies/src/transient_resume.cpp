@@ -55,6 +55,12 @@ int TransientStudy::resume_results(const std::string& path) {
                              " was not written by this case and mesh; cannot resume");
   steps_done_ = static_cast<int>(done);
   drop_unfinished_rows();
+  if (h5_->has_attribute("/", "settled_at_period")) {
+    // It stopped when settled: nothing is left to step; the summary is made again.
+    settled_at_period_ = static_cast<int>(h5_->read_long_attribute("/", "settled_at_period"));
+    grid_.steps = steps_done_;
+    grid_.discarded_steps = steps_done_ - grid_.steps_per_period;
+  }
   // The solver's totals carry over, so the summary counts the whole run.
   const auto total_of = [&](const char* d) {
     if (done == 0 || !h5_->exists(d)) return 0;
@@ -91,7 +97,11 @@ int TransientStudy::resume_results(const std::string& path) {
   }
   for (int n = 0; n < done; ++n)
     if (snapshot_at(n)) snapshot_steps_.emplace_back(grid_.time(n), n);
-  fmt::print(stderr, "resuming at step {} of {}\n", done + 1, grid_.steps);
+  if (settled_at_period_ > 0)
+    fmt::print(stderr, "the run settled after period {}: nothing is left to step; summarising\n",
+               settled_at_period_);
+  else
+    fmt::print(stderr, "resuming at step {} of {}\n", done + 1, grid_.steps);
   return static_cast<int>(done);
 }
 

@@ -96,6 +96,12 @@ void TransientStudy::run() {
       finish(where);
       throw Interrupted{sig};
     }
+    if (settled_after_step(n)) {
+      if (terminal) fmt::print(stderr, "\n");
+      fmt::print(stderr, "settled after period {} (within {:g} %): the run ends here\n",
+                 settled_at_period_, case_.study.steady_state_tolerance_pct);
+      break;
+    }
     const double elapsed = now_s() - wall_start_s_;
     const double left = elapsed / (n + 1 - first) * (grid_.steps - n - 1);
     if (terminal) {
@@ -109,8 +115,24 @@ void TransientStudy::run() {
                  duration_text(elapsed));
     }
   }
-  if (terminal) fmt::print(stderr, "\n");
+  if (terminal && settled_at_period_ == 0) fmt::print(stderr, "\n");
   finish("");
+}
+
+bool TransientStudy::settled_after_step(int n) {
+  const int spp = grid_.steps_per_period, done = n + 1;
+  if (!case_.study.stop_when_settled || done % spp != 0 || done / spp < 2) return false;
+  const SteadyStateIndicator ss =
+      steady_state_indicator(settle_record(done), case_.study.steady_state_tolerance_pct);
+  if (!ss.reached) return false;
+  settled_at_period_ = done / spp;
+  // The settled period is the one analysed; the record says the run is whole (a resume has
+  // nothing left to do).
+  grid_.discarded_steps = done - spp;
+  grid_.steps = done;
+  h5_->attribute("/", "settled_at_period", static_cast<long>(settled_at_period_));
+  h5_->flush();
+  return true;
 }
 
 void TransientStudy::set_up() {
@@ -211,9 +233,12 @@ void TransientStudy::step(int n) {
 
   // The circuits coupled to the field: each eliminated into a term of the Newton system.
   std::vector<CoupledCircuit*> circuits;
+  const bool harmonic_start = !have_last_ && case_.study.start == StartKind::time_harmonic;
+  if (harmonic_start) start_from_harmonic(system, model);
   if (circuit_) {
     circuit_->attach(coil_coupling(system.assembler(), coils_));
-    if (!have_last_) start_circuit(system, model, circuit_->coupling(), bars, settings);
+    if (!have_last_ && !harmonic_start)
+      start_circuit(system, model, circuit_->coupling(), bars, settings);
     circuits.push_back(circuit_.get());
   }
   if (cage_wanted()) {
@@ -275,7 +300,7 @@ void TransientStudy::step(int n) {
     h5_->append_row("steps/line_voltage", {line_v.begin(), line_v.end()}, "V");
     h5_->append_row("steps/supply_voltage", {phase_v.begin(), phase_v.end()}, "V");
   }
-  if (cage_) write_cage_step(system);
+  if (cage_) write_cage_step(system, angle);
   h5_->append_row("steps/newton_iterations", {double(report.iterations)}, "1");
   h5_->append_row("steps/newton_factorizations", {double(report.factorizations)}, "1");
   h5_->append_row("steps/cg_iterations", {double(report.cg_iterations)}, "1");
@@ -380,6 +405,13 @@ void TransientStudy::finish(const std::string& failure) {
   const RunRecord record = read_record(done);
   s.analysis = analyse_run(record);
   s.steady_state = steady_state_indicator(record, case_.study.steady_state_tolerance_pct);
+  s.start = case_.study.start == StartKind::time_harmonic ? "time_harmonic" : "cold";
+  s.start_harmonic_solves = start_iterations_;
+  s.start_harmonic_s = start_s_;
+  s.settled_stop = case_.study.stop_when_settled;
+  s.settled_at_period = settled_at_period_;
+  s.periods_run = done / grid_.steps_per_period;
+  s.periods_allowed = case_.study.periods;
   if (circuit_) {
     s.voltage_fed = true;
     s.connection = to_string(case_.supply.connection);

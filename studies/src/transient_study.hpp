@@ -74,10 +74,15 @@ class TransientStudy {
   void set_up_cage();
   // Creates the cage's circuit on the first step's system, with the field it is switched on in
   // (or, resuming, the stored history).
+  // `cold`: the bars carry no current at first; otherwise the caller sets the history.
   void start_cage(MagnetostaticSystem& system, const RegionModel& model,
-                  const NewtonSettings& settings);
+                  const NewtonSettings& settings, bool cold = true);
+  // start = "time_harmonic": field, cage and winding history from the time-harmonic solution
+  // (transient_harmonic_start.cpp); before the first step's circuits are set up.
+  void start_from_harmonic(MagnetostaticSystem& system, const RegionModel& model);
   void add_eddy_currents(RegionModel& model) const;
-  void write_cage_step(const MagnetostaticSystem& system);  // rows of steps/ and bar_density_
+  void write_cage_step(const MagnetostaticSystem& system,
+                       double rotor_angle_rad);  // rows of steps/ and bar_density_
   std::vector<double> bar_triangle_areas() const;
   // The cage's currents and losses and the power balance over the analysis window.
   void cage_and_power_summary(RunSummary& s, int done) const;
@@ -87,14 +92,22 @@ class TransientStudy {
   SaturationMap saturation_over_last_period(int done, const std::vector<double>& b_rows,
                                             int first_row_step);
   // The first step whose element fields are kept (lean: the last period's only).
+  // A run that may stop when settled does not know its last period ahead: it keeps them all.
   int first_b_step() const {
-    return detail_ == OutputDetail::lean ? std::max(0, grid_.steps - grid_.steps_per_period) : 0;
+    return detail_ == OutputDetail::lean && !case_.study.stop_when_settled
+               ? std::max(0, grid_.steps - grid_.steps_per_period)
+               : 0;
   }
   // A field snapshot is written after step n.
   bool snapshot_at(int n) const {
     return detail_ == OutputDetail::full && n % case_.output.fields_every == 0;
   }
   RunRecord read_record(int done) const;  // the finished steps, for the analysis
+  // What the steady-state indicator reads (time, flux linkage, torque, cage wave), lighter.
+  RunRecord settle_record(int done) const;
+  // study.stop_when_settled: after a whole period (from the second on), whether the steady-state
+  // indicator is within its tolerance; if so the analysis window becomes that period.
+  bool settled_after_step(int n);
   void finish(const std::string& failure);
 
   std::string case_path_, out_dir_;
@@ -127,7 +140,10 @@ class TransientStudy {
   double system_angle_rad_ = 0.0;
   std::array<double, 3> psi_last_{0, 0, 0};
   bool have_last_ = false;
-  int shift_last_ = 0;  // band shift of the last step
+  int shift_last_ = 0;         // band shift of the last step
+  int settled_at_period_ = 0;  // stop_when_settled: the period that settled (0: none yet)
+  int start_iterations_ = 0;   // linear solves of the time-harmonic start
+  double start_s_ = 0.0;
   int newton_total_ = 0;
   int factorizations_total_ = 0;
   int cg_total_ = 0;

@@ -201,6 +201,11 @@ struct MeshSpec {
 enum class TimeScheme { backward_euler, bdf2 };
 enum class StudyKind { static_field, time_stepping, time_harmonic };
 enum class Motion { slip, speed, locked };
+// Where time stepping starts: `cold` — the induced cage switched on in the stator's field (its
+// currents then build up with the rotor's time constant) and a voltage feed from its linear steady
+// state; `time_harmonic` — field, bar and ring currents and winding linkages from the
+// time-harmonic solution at the case's slip, so the run begins near its steady state.
+enum class StartKind { cold, time_harmonic };
 
 struct StudySpec {
   StudyKind kind = StudyKind::static_field;
@@ -216,6 +221,10 @@ struct StudySpec {
   bool band_aligned_steps = false;  // pick the step count so the rotor moves whole band pitches
   TimeScheme time_scheme = TimeScheme::bdf2;  // voltage feed: the circuit equations' d/dt
   double steady_state_tolerance_pct = 0.5;    // per-period change of the flux-linkage phasors
+  StartKind start = StartKind::cold;
+  // End the run after the first period (from the second on) within the steady-state tolerance;
+  // `periods` is then the most that is run.
+  bool stop_when_settled = false;
 };
 
 // Currents imposed on the cage bars (not induced): a balanced set at slip frequency.

@@ -38,6 +38,7 @@ class ResultsFile {
   std::vector<double> read(const std::string& path) const;
   std::vector<std::string> read_strings(const std::string& path) const;
   long read_long_attribute(const std::string& object, const std::string& name) const;
+  bool has_attribute(const std::string& object, const std::string& name) const;
   // "" when the attribute is absent.
   std::string read_string_attribute(const std::string& object, const std::string& name) const;
   bool exists(const std::string& path) const;

@@ -32,18 +32,29 @@ struct RunRecord {
   bool voltage_fed = false;
   std::array<std::vector<double>, 3> supply_voltage_v, line_voltage_v, line_current_a,
       winding_voltage_v;
+  // An induced cage: the bar currents' wave of the pole-pair order in the stator's frame,
+  // (2/N)·Σ_k i_k·e^{−jpθ_k} over the bars at their angles, every finished step (else empty).
+  std::vector<std::complex<double>> cage_wave_a;
 };
 
 // The approach to periodic steady state: per whole electrical period from the first step, the
 // largest change of a phase's fundamental flux-linkage phasor from the period before, and the
 // largest DC part of a phase's flux linkage (what a start-up transient leaves, decaying with
-// L/R), both in % of the largest fundamental amplitude; reached when the last period's change
-// and DC part are both below the tolerance.
+// L/R), both in % of the largest fundamental amplitude; the change of the mean torque from the
+// period before in % of the period's RMS torque; with a cage, the change of the magnitudes of its
+// current wave's forward and backward parts (the wave turns at ±ω in the stator's frame, so a
+// period's mean of wave·e^{∓jωt} settles even when the bars' own currents, at slip frequency, do
+// not repeat each period) in % of the larger. Reached when every one of them is below the
+// tolerance in the last period.
 struct SteadyStateIndicator {
-  std::vector<double> change_pct;  // one per period after the first
-  std::vector<double> dc_pct;      // one per period
+  std::vector<double> change_pct;         // one per period after the first
+  std::vector<double> dc_pct;             // one per period
+  std::vector<double> torque_change_pct;  // one per period after the first
+  std::vector<double> cage_change_pct;    // one per period after the first; empty without a cage
   double tolerance_pct = 0.0;
   bool reached = false;
+  // The last period's largest measure (the one the tolerance is held against).
+  double last_worst_pct() const;
 };
 SteadyStateIndicator steady_state_indicator(const RunRecord& record, double tolerance_pct);
 

@@ -91,6 +91,16 @@ struct RunSummary {
   double set_up_s = 0.0;  // from the study's start to its first solve (case, mesh, system)
   double mesh_s = 0.0;    // of which the mesh (read from the cache or made)
   bool mesh_from_cache = false;
+  // Time stepping: "cold" or "time_harmonic" (study.start), and for the latter the linear solves
+  // and seconds its harmonic solution took.
+  std::string start;
+  int start_harmonic_solves = 0;
+  double start_harmonic_s = 0.0;
+  // study.stop_when_settled: whether it was asked, the period that settled (0: none did), the
+  // periods run and the most allowed.
+  bool settled_stop = false;
+  int settled_at_period = 0, periods_run = 0;
+  double periods_allowed = 0.0;
   std::vector<double> residual_history;
   std::vector<double> step_history;  // line-search factor of each Newton step
   std::string failure;               // empty when the run succeeded
