@@ -201,6 +201,7 @@ HarmonicState solve_harmonic(const Assembler& assembler, const RegionModel& mode
   // the reluctivities are taken at part of the way towards the new solution's: relaxing B
   // rather than ν, whose steep rise in saturation makes plain substitution oscillate.
   std::vector<double> b_used(assembler.elements().size(), 1.0);
+  if (settings.initial_b_peak_tesla.size() == b_used.size()) b_used = settings.initial_b_peak_tesla;
   std::vector<double> nu = effective_reluctivities(assembler, model, b_used);
   HarmonicState s;
   const double alpha = settings.relaxation;

@@ -38,13 +38,6 @@ double degrees(Complex x) {
   return std::arg(x) * 180.0 / pi;
 }
 
-// Mean torque over a period of the field x(t) = Re{x̂·e^{jωt}} (Arkkio's integral is bilinear).
-double mean_torque_nm(const MagnetostaticSystem& system, const Eigen::VectorXcd& x,
-                      double stack_m) {
-  return 0.5 * (arkkio_torque_nm(system.assembler(), x.real(), system.mesh(), stack_m) +
-                arkkio_torque_nm(system.assembler(), x.imag(), system.mesh(), stack_m));
-}
-
 }  // namespace
 
 HarmonicStudy::HarmonicStudy(std::string case_path, Case c, std::string out_dir, FolderUse use)
@@ -117,56 +110,44 @@ void HarmonicStudy::solve() {
   solve_s_ = now_s() - start_s;
 }
 
+PointContext HarmonicStudy::point_context() const {
+  PointContext c;
+  c.system = system_.get();
+  c.winding = &winding_;
+  c.cage = cage_.get();
+  c.bar_of_region = &bar_of_region_;
+  c.omega_rad_per_s = omega_;
+  c.pole_pairs = case_.machine.pole_pairs();
+  c.stack_m = case_.machine.stack_length_m;
+  return c;
+}
+
 void HarmonicStudy::write_output() {
   namespace fs = std::filesystem;
   using json = nlohmann::json;
-  const double stack = case_.machine.stack_length_m;
   const double sync_rad_s = omega_ / case_.machine.pole_pairs();
   const double rotor_rad_s = (1.0 - slip_) * sync_rad_s;
 
-  // Per sequence: the air-gap power (what the winding takes in, less its copper loss: the FE
-  // iron is lossless) and the torque it gives, P_ag/Ω_sync forward and −P_ag/Ω_sync backward —
-  // the equivalent circuit's definition. The Maxwell stress in the band (Arkkio) is reported
-  // beside it: with the rotor held at one position the stator's slot harmonics meet the bars at
-  // the fundamental's slip, not at their own, and the stress counts their spurious torques (2.8 %
-  // of the torque at s = 0.5 on the linear test motor, where time stepping agreed with the
-  // air-gap power to 0.5 %).
-  const auto gap_power_w = [&](const HarmonicState& s) {
-    double p = 0.0;
-    for (int k = 0; k < 3; ++k)
-      p += 0.5 * (s.branch_voltage_v[k] * std::conj(s.branch_current_a[k])).real() -
-           0.5 * winding_.impedance.resistance_ohm * std::norm(s.branch_current_a[k]);
-    return p;
-  };
-  const double gap1_w = gap_power_w(positive_),
-               gap2_w = has_negative_ ? gap_power_w(negative_) : 0.0;
-  const double torque1 = gap1_w / sync_rad_s, torque2 = -gap2_w / sync_rad_s;
-  const double arkkio1 = mean_torque_nm(*system_, positive_.x, stack);
-  const double arkkio2 = has_negative_ ? mean_torque_nm(*system_, negative_.x, stack) : 0.0;
-  HarmonicCageLoss cage1, cage2;
-  if (cage_) {
-    cage1 = harmonic_cage_loss(system_->assembler(), bar_of_region_, *cage_, positive_);
-    if (has_negative_)
-      cage2 = harmonic_cage_loss(system_->assembler(), bar_of_region_, *cage_, negative_);
-  }
-  const Eigen::Vector3cd current =
-      positive_.branch_current_a +
-      (has_negative_ ? negative_.branch_current_a : Eigen::Vector3cd::Zero());
-  const Eigen::Vector3cd voltage =
-      positive_.branch_voltage_v +
-      (has_negative_ ? negative_.branch_voltage_v : Eigen::Vector3cd::Zero());
-  double input_w = 0.0, apparent_va = 0.0, copper_w = 0.0;
-  for (int k = 0; k < 3; ++k) {
-    input_w += 0.5 * (voltage[k] * std::conj(current[k])).real();
-    apparent_va += rms(voltage[k]) * rms(current[k]);
-    copper_w += 0.5 * winding_.impedance.resistance_ohm * std::norm(current[k]);
-  }
-  const double torque = torque1 + torque2;
-  const double cage_w = cage1.bars_w + cage1.rings_w + cage2.bars_w + cage2.rings_w;
-  const double mechanical_w = torque * rotor_rad_s;
-  const Sequences i_seq = sequences_of(current), v_seq = sequences_of(voltage);
-  double b_peak = 0.0;
-  for (double b : positive_.b_peak_tesla) b_peak = std::max(b_peak, b);
+  // The torque is the air-gap power over synchronous speed per sequence (the equivalent
+  // circuit's). The Maxwell stress in the band (Arkkio) is reported beside it: with the rotor
+  // held at one position the stator's slot harmonics meet the bars at the fundamental's slip, not
+  // at their own, and the stress counts their spurious torques (2.8 % of the torque at s = 0.5 on
+  // the linear test motor, where time stepping agreed with the air-gap power to 0.5 %).
+  SequenceFields fields;
+  fields.positive = positive_;
+  fields.negative = negative_;
+  fields.has_negative = has_negative_;
+  const HarmonicPoint point = evaluate_point(point_context(), fields, slip_);
+  const Eigen::Vector3cd& current = point.current_a;
+  const Eigen::Vector3cd& voltage = point.voltage_v;
+  const double gap1_w = point.airgap_positive_w, gap2_w = point.airgap_negative_w;
+  const double torque1 = point.torque_positive_nm, torque2 = point.torque_negative_nm;
+  const double input_w = point.input_w, apparent_va = point.apparent_va, copper_w = point.copper_w;
+  const double torque = point.torque_nm;
+  const double cage_w = point.cage_bars_w + point.cage_rings_w;
+  const double mechanical_w = point.mechanical_w;
+  const Sequences i_seq = point.current_seq, v_seq = point.voltage_seq;
+  const double b_peak = point.b_peak_tesla;
 
   // results.h5: the phasors, and per element the effective reluctivity and the peak |B|.
   const std::string h5_path = folder_->path("results.h5");
@@ -268,7 +249,7 @@ void HarmonicStudy::write_output() {
   j["torque"] = {{"mean_nm", torque},
                  {"positive_sequence_nm", torque1},
                  {"negative_sequence_nm", torque2},
-                 {"maxwell_stress_nm", arkkio1 + arkkio2},
+                 {"maxwell_stress_nm", point.maxwell_stress_nm},
                  {"method",
                   "air-gap power over synchronous speed, per sequence (the equivalent circuit's "
                   "torque); maxwell_stress_nm: Arkkio's band integral of the phasor field, which "
@@ -291,22 +272,19 @@ void HarmonicStudy::write_output() {
        "Σ V·I (RMS per branch); displacement_factor = cos(∠V1 − ∠I1)"}};
   j["losses"] = {{"copper_w", copper_w}};
   if (cage_) {
-    double bar1 = 0.0, bar2 = 0.0;
-    for (const Complex& i : positive_.bar_current_a) bar1 = std::max(bar1, rms(i));
-    if (has_negative_)
-      for (const Complex& i : negative_.bar_current_a) bar2 = std::max(bar2, rms(i));
+    const double bar1 = point.bar_forward_rms_a, bar2 = point.bar_backward_rms_a;
     j["cage"] = {{"currents", "induced"},
                  {"loss_w", cage_w},
-                 {"loss_bars_w", cage1.bars_w + cage2.bars_w},
-                 {"loss_rings_w", cage1.rings_w + cage2.rings_w},
+                 {"loss_bars_w", point.cage_bars_w},
+                 {"loss_rings_w", point.cage_rings_w},
                  {"forward",
                   {{"frequency_hz", slip_ * case_.supply.frequency_hz},
                    {"bar_rms_a", bar1},
-                   {"loss_w", cage1.bars_w + cage1.rings_w}}},
+                   {"loss_w", point.cage_forward_w}}},
                  {"backward",
                   {{"frequency_hz", (2.0 - slip_) * case_.supply.frequency_hz},
                    {"bar_rms_a", bar2},
-                   {"loss_w", cage2.bars_w + cage2.rings_w}}}};
+                   {"loss_w", point.cage_backward_w}}}};
   }
   j["cautions"] = {
       "A model's estimate, not a measurement: rotor heating and protection settings rest on the "
@@ -339,7 +317,7 @@ void HarmonicStudy::write_output() {
       torque, torque1, torque2, input_w, apparent_va > 0 ? input_w / apparent_va : 0.0);
   if (cage_)
     fmt::print("cage loss {:.1f} W (forward {:.1f}, backward {:.1f}); peak |B| {:.3f} T\n", cage_w,
-               cage1.bars_w + cage1.rings_w, cage2.bars_w + cage2.rings_w, b_peak);
+               point.cage_forward_w, point.cage_backward_w, b_peak);
   fmt::print("wrote {}/results.h5 and summary.json\n", out_dir_);
 }
 

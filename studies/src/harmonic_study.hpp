@@ -18,6 +18,7 @@
 #include "solver/magnetostatic_system.hpp"
 #include "solver/winding_sources.hpp"
 #include "studies/run_folder.hpp"
+#include "supply_sequences.hpp"
 
 namespace gapflux {
 
@@ -32,6 +33,7 @@ class HarmonicStudy {
   void set_up();
   void solve();
   void write_output();
+  PointContext point_context() const;
 
   std::string case_path_, out_dir_;
   FolderUse folder_use_ = FolderUse::fresh;

@@ -2,6 +2,7 @@
 
 #include <numbers>
 
+#include "postproc/torque.hpp"
 #include "solver/supply_currents.hpp"
 #include "solver/winding_sources.hpp"
 
@@ -55,14 +56,13 @@ Eigen::Vector3cd supply_fundamental(const SupplySpec& supply, bool voltage_fed, 
 
 SequenceFields solve_sequences(const Assembler& assembler, const RegionModel& model,
                                HarmonicWinding winding, const HarmonicCage* cage,
-                               double omega_rad_per_s, double slip,
-                               const Eigen::Vector3cd& source) {
+                               double omega_rad_per_s, double slip, const Eigen::Vector3cd& source,
+                               const HarmonicSettings& settings) {
   SequenceFields out;
   const Sequences seq = sequences_of(source);
   out.source_positive = positive_set(seq.positive);
   out.source_negative = negative_set(seq.negative);
   out.has_negative = std::abs(seq.negative) > 1e-9 * std::abs(seq.positive);
-  const HarmonicSettings settings;
   winding.source = out.source_positive;
   out.positive = solve_harmonic(assembler, model, winding, cage, omega_rad_per_s, slip, settings);
   if (out.has_negative) {
@@ -71,6 +71,70 @@ SequenceFields solve_sequences(const Assembler& assembler, const RegionModel& mo
                                   settings, &out.positive.reluctivity);
   }
   return out;
+}
+
+double HarmonicPoint::current_rms_a() const {
+  return std::abs(current_seq.positive) / std::sqrt(2.0);
+}
+
+HarmonicPoint evaluate_point(const PointContext& c, const SequenceFields& f, double slip) {
+  HarmonicPoint p;
+  p.slip = slip;
+  const HarmonicWinding& w = *c.winding;
+  const double sync_rad_s = c.omega_rad_per_s / c.pole_pairs;
+  const auto gap_power_w = [&](const HarmonicState& s) {
+    double power = 0.0;
+    for (int k = 0; k < 3; ++k)
+      power += 0.5 * (s.branch_voltage_v[k] * std::conj(s.branch_current_a[k])).real() -
+               0.5 * w.impedance.resistance_ohm * std::norm(s.branch_current_a[k]);
+    return power;
+  };
+  // Mean over a period of Arkkio's stress of x(t) = Re{x̂·e^{jωt}} (bilinear in the field).
+  const auto stress_nm = [&](const Eigen::VectorXcd& x) {
+    return 0.5 * (arkkio_torque_nm(c.system->assembler(), x.real(), c.system->mesh(), c.stack_m) +
+                  arkkio_torque_nm(c.system->assembler(), x.imag(), c.system->mesh(), c.stack_m));
+  };
+  p.airgap_positive_w = gap_power_w(f.positive);
+  p.airgap_negative_w = f.has_negative ? gap_power_w(f.negative) : 0.0;
+  p.torque_positive_nm = p.airgap_positive_w / sync_rad_s;
+  p.torque_negative_nm = -p.airgap_negative_w / sync_rad_s;
+  p.torque_nm = p.torque_positive_nm + p.torque_negative_nm;
+  p.maxwell_stress_nm = stress_nm(f.positive.x) + (f.has_negative ? stress_nm(f.negative.x) : 0.0);
+  const auto largest_rms = [](const Eigen::VectorXcd& currents) {
+    double largest = 0.0;
+    for (const Complex& i : currents) largest = std::max(largest, std::abs(i) / std::sqrt(2.0));
+    return largest;
+  };
+  if (c.cage) {
+    const HarmonicCageLoss one =
+        harmonic_cage_loss(c.system->assembler(), *c.bar_of_region, *c.cage, f.positive);
+    p.cage_forward_w = one.bars_w + one.rings_w;
+    p.cage_bars_w += one.bars_w, p.cage_rings_w += one.rings_w;
+    p.bar_forward_rms_a = largest_rms(f.positive.bar_current_a);
+    if (f.has_negative) {
+      const HarmonicCageLoss two =
+          harmonic_cage_loss(c.system->assembler(), *c.bar_of_region, *c.cage, f.negative);
+      p.cage_backward_w = two.bars_w + two.rings_w;
+      p.cage_bars_w += two.bars_w, p.cage_rings_w += two.rings_w;
+      p.bar_backward_rms_a = largest_rms(f.negative.bar_current_a);
+    }
+  }
+  p.current_a = f.positive.branch_current_a;
+  p.voltage_v = f.positive.branch_voltage_v;
+  if (f.has_negative) {
+    p.current_a += f.negative.branch_current_a;
+    p.voltage_v += f.negative.branch_voltage_v;
+  }
+  for (int k = 0; k < 3; ++k) {
+    p.input_w += 0.5 * (p.voltage_v[k] * std::conj(p.current_a[k])).real();
+    p.apparent_va += 0.5 * std::abs(p.voltage_v[k]) * std::abs(p.current_a[k]);
+    p.copper_w += 0.5 * w.impedance.resistance_ohm * std::norm(p.current_a[k]);
+  }
+  p.mechanical_w = p.torque_nm * (1.0 - slip) * sync_rad_s;
+  p.current_seq = sequences_of(p.current_a);
+  p.voltage_seq = sequences_of(p.voltage_v);
+  for (double b : f.positive.b_peak_tesla) p.b_peak_tesla = std::max(p.b_peak_tesla, b);
+  return p;
 }
 
 }  // namespace gapflux

@@ -6,6 +6,7 @@
 
 #include "cases/case.hpp"
 #include "solver/harmonic_field.hpp"
+#include "solver/magnetostatic_system.hpp"
 
 namespace gapflux {
 
@@ -34,6 +35,35 @@ struct SequenceFields {
 };
 SequenceFields solve_sequences(const Assembler& assembler, const RegionModel& model,
                                HarmonicWinding winding, const HarmonicCage* cage,
-                               double omega_rad_per_s, double slip, const Eigen::Vector3cd& source);
+                               double omega_rad_per_s, double slip, const Eigen::Vector3cd& source,
+                               const HarmonicSettings& settings = {});
+
+// One operating point from its sequences' fields: what the winding takes and the rotor gives.
+// Per sequence the air-gap power (input less stator copper: the FE iron is lossless) and its
+// torque ±P_ag/Ω_sync (the equivalent circuit's); Arkkio's stress of the held-rotor field beside.
+struct HarmonicPoint {
+  double slip = 0.0;
+  Eigen::Vector3cd current_a = Eigen::Vector3cd::Zero(), voltage_v = Eigen::Vector3cd::Zero();
+  Sequences current_seq{}, voltage_seq{};
+  double torque_nm = 0.0, torque_positive_nm = 0.0, torque_negative_nm = 0.0;
+  double maxwell_stress_nm = 0.0;
+  double airgap_positive_w = 0.0, airgap_negative_w = 0.0;
+  double input_w = 0.0, apparent_va = 0.0, copper_w = 0.0, mechanical_w = 0.0;
+  double cage_bars_w = 0.0, cage_rings_w = 0.0, cage_forward_w = 0.0, cage_backward_w = 0.0;
+  double bar_forward_rms_a = 0.0, bar_backward_rms_a = 0.0;  // the largest bar's
+  double b_peak_tesla = 0.0;
+  double efficiency_pct() const { return input_w > 0 ? 100.0 * mechanical_w / input_w : 0.0; }
+  double power_factor() const { return apparent_va > 0 ? input_w / apparent_va : 0.0; }
+  double current_rms_a() const;  // the positive sequence's RMS
+};
+struct PointContext {
+  const MagnetostaticSystem* system = nullptr;
+  const HarmonicWinding* winding = nullptr;
+  const HarmonicCage* cage = nullptr;  // null without an induced cage
+  const std::vector<int>* bar_of_region = nullptr;
+  double omega_rad_per_s = 0.0, pole_pairs = 1.0, stack_m = 0.0;
+};
+HarmonicPoint evaluate_point(const PointContext& context, const SequenceFields& fields,
+                             double slip);
 
 }  // namespace gapflux

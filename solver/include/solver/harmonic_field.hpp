@@ -72,6 +72,9 @@ struct HarmonicSettings {
   // Each iteration moves the flux density the reluctivities are taken at this fraction of the
   // way towards the new solution's peak |B|.
   double relaxation = 0.5;
+  // The peak |B| per element the first reluctivities are taken at (a neighbouring solution's, to
+  // start near it); empty: 1 T everywhere.
+  std::vector<double> initial_b_peak_tesla;
 };
 
 struct HarmonicState {
