@@ -157,6 +157,7 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
   const bool stepping = st.kind == StudyKind::time_stepping;
   const char* kind = stepping                              ? "time_stepping"
                      : st.kind == StudyKind::time_harmonic ? "time_harmonic"
+                     : st.kind == StudyKind::slip_curves   ? "slip_curves"
                                                            : "static";
   fmt::print(out, "\n[study]\nkind = \"{}\"\nrotor_angle_deg = {:g}\ntime_s = {:g}\n", kind,
              st.rotor_angle_rad * to_deg, st.time_s);
@@ -172,6 +173,9 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
     if (st.motion == Motion::speed) fmt::print(out, "speed_rpm = {:g}\n", st.speed_rpm);
   }
   if (stepping) fmt::print(out, "band_aligned_steps = {}\n", st.band_aligned_steps);
+  if (st.kind == StudyKind::slip_curves)
+    fmt::print(out, "slip_from = {:g}\nslip_to = {:g}\npoints = {}\n", st.slip_from, st.slip_to,
+               st.points);
   if (c.rotor_currents.bar_rms_a > 0)
     fmt::print(out,
                "\n[rotor_currents]  # imposed, not induced\nbar_rms_a = {:g}\nangle_deg = {:g}\n",

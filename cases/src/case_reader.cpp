@@ -323,8 +323,8 @@ MeshSpec parse_mesh(std::optional<TableReader> t) {
 StudySpec parse_study(std::optional<TableReader> t) {
   StudySpec s;
   if (!t) return s;
-  s.kind = static_cast<StudyKind>(
-      choice(*t, "kind", {"static", "time_stepping", "time_harmonic"}, std::size_t{0}));
+  s.kind = static_cast<StudyKind>(choice(
+      *t, "kind", {"static", "time_stepping", "time_harmonic", "slip_curves"}, std::size_t{0}));
   s.rotor_angle_rad = number_in(*t, "rotor_angle_deg", 0.0, -360.0, 360.0, "degrees") * deg;
   s.time_s = number_in(*t, "time_s", 0.0, -1e6, 1e6, "s");
   std::vector<std::pair<std::string, std::string>> not_applicable;
@@ -342,7 +342,22 @@ StudySpec parse_study(std::optional<TableReader> t) {
       not_applicable.emplace_back("speed_rpm", "a locked rotor does not turn");
     }
   }
-  if (s.kind == StudyKind::time_harmonic) {
+  if (s.kind == StudyKind::slip_curves) {
+    s.rated_given = s.motion == Motion::slip && t->has("slip");
+    s.slip_from = number_in(*t, "slip_from", 1.0, -1.0, 2.0, "(per unit)");
+    s.slip_to = number_in(*t, "slip_to", -0.02, -1.0, 2.0, "(per unit)");
+    if (s.slip_to == s.slip_from)
+      throw t->error("slip_to", "must differ from slip_from: a curve needs a range of slips");
+    s.points = integer_in(*t, "points", 20, 3, 1000);
+    if (s.motion != Motion::slip)
+      throw t->error("motion",
+                     "slip curves run over a range of slips: give slip_from and "
+                     "slip_to, and slip for the rated point");
+  } else {
+    for (const char* k : {"slip_from", "slip_to", "points"})
+      not_applicable.emplace_back(k, "only slip curves (kind = \"slip_curves\") run over slips");
+  }
+  if (s.kind == StudyKind::time_harmonic || s.kind == StudyKind::slip_curves) {
     for (const char* k :
          {"steps_per_period", "periods", "discard_periods", "band_aligned_steps", "time_scheme",
           "steady_state_tolerance_pct", "start", "stop_when_settled"})

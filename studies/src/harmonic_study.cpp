@@ -50,6 +50,11 @@ void HarmonicStudy::run() {
   wall_start_s_ = now_s();
   set_up();
   set_up_s_ = now_s() - wall_start_s_;
+  if (case_.study.kind == StudyKind::slip_curves) {
+    solve_curves();
+    write_curves();
+    return;
+  }
   solve();
   write_output();
 }

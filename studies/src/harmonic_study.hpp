@@ -34,6 +34,12 @@ class HarmonicStudy {
   void solve();
   void write_output();
   PointContext point_context() const;
+  // kind = "slip_curves" (slip_curves.cpp): the points from slip_from to slip_to, each started
+  // from its neighbour's flux densities, and the standstill and rated points.
+  void solve_curves();
+  void write_curves();
+  HarmonicPoint solve_point(double slip, const std::vector<double>& start_b_peak,
+                            std::vector<double>& b_peak, int& iterations);
 
   std::string case_path_, out_dir_;
   FolderUse folder_use_ = FolderUse::fresh;
@@ -57,6 +63,15 @@ class HarmonicStudy {
   RunSummary summary_;
   double wall_start_s_ = 0.0, set_up_s_ = 0.0, mesh_s_ = 0.0, solve_s_ = 0.0;
   bool mesh_from_cache_ = false;
+  // Slip curves: one entry per point (converged or not), and the standstill and rated points.
+  struct CurvePoint {
+    HarmonicPoint point;
+    bool converged = false;
+    int iterations = 0;
+    std::string failure;
+  };
+  std::vector<CurvePoint> curve_;
+  std::optional<CurvePoint> standstill_, rated_;
 };
 
 }  // namespace gapflux

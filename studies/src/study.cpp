@@ -70,7 +70,7 @@ RunSummary run_study(const std::string& case_path, const Case& c, const std::str
   if (options.baseline && !stepping)
     throw InputError(case_path, {}, "study.kind",
                      "--baseline compares time-stepping studies; this case is not one");
-  if (c.study.kind == StudyKind::time_harmonic) {
+  if (c.study.kind == StudyKind::time_harmonic || c.study.kind == StudyKind::slip_curves) {
     HarmonicStudy study(case_path, c, out_dir, options.folder_use);
     study.run();
     return study.summary();

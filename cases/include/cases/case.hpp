@@ -199,7 +199,9 @@ struct MeshSpec {
 // Discretisation of d/dt in the circuit equations: backward Euler (first order) or the
 // two-step backward difference formula (second order).
 enum class TimeScheme { backward_euler, bdf2 };
-enum class StudyKind { static_field, time_stepping, time_harmonic };
+// slip_curves: the time-harmonic steady state at a range of slips (torque, current, power
+// factor, efficiency against slip).
+enum class StudyKind { static_field, time_stepping, time_harmonic, slip_curves };
 enum class Motion { slip, speed, locked };
 // Where time stepping starts: `cold` — the induced cage switched on in the stator's field (its
 // currents then build up with the rotor's time constant) and a voltage feed from its linear steady
@@ -225,6 +227,12 @@ struct StudySpec {
   // End the run after the first period (from the second on) within the steady-state tolerance;
   // `periods` is then the most that is run.
   bool stop_when_settled = false;
+  // slip_curves: `points` slips evenly from slip_from to slip_to (the case's slip, if given, is
+  // marked as the rated point).
+  double slip_from = 1.0;
+  double slip_to = -0.02;
+  int points = 20;
+  bool rated_given = false;
 };
 
 // Currents imposed on the cage bars (not induced): a balanced set at slip frequency.

@@ -1,0 +1,281 @@
+// HarmonicStudy, kind = "slip_curves": the time-harmonic steady state at a range of slips —
+// torque, stator current, power factor and efficiency against slip, the starting point
+// (standstill), the breakdown torque and its slip, the rated point (the case's slip). Each point
+// starts its effective-reluctivity iteration from its neighbour's flux densities.
+#include <fmt/format.h>
+
+#include <chrono>
+#include <cmath>
+#include <filesystem>
+#include <fstream>
+#include <nlohmann/json.hpp>
+#include <numbers>
+
+#include "harmonic_study.hpp"
+#include "postproc/results_file.hpp"
+#include "solver/newton.hpp"
+#include "version.hpp"
+
+namespace gapflux {
+namespace {
+
+double now_s() {
+  return std::chrono::duration<double>(std::chrono::steady_clock::now().time_since_epoch()).count();
+}
+
+// The largest torque among the motoring points and, when it lies between two others, the vertex
+// of the parabola through the three (slip, torque).
+struct Breakdown {
+  double slip = 0.0, torque_nm = 0.0;
+  bool refined = false, found = false;
+};
+Breakdown breakdown_of(const std::vector<double>& slip, const std::vector<double>& torque) {
+  Breakdown b;
+  std::size_t best = 0;
+  for (std::size_t k = 0; k < slip.size(); ++k)
+    if (slip[k] > 0.0 && std::isfinite(torque[k]) && (!b.found || torque[k] > torque[best]))
+      best = k, b.found = true;
+  if (!b.found) return b;
+  b.slip = slip[best], b.torque_nm = torque[best];
+  if (best == 0 || best + 1 == slip.size() || !std::isfinite(torque[best - 1]) ||
+      !std::isfinite(torque[best + 1]))
+    return b;
+  const double x0 = slip[best - 1], x1 = slip[best], x2 = slip[best + 1];
+  const double y0 = torque[best - 1], y1 = torque[best], y2 = torque[best + 1];
+  // Newton's divided differences: y = y0 + d1·(x − x0) + d2·(x − x0)(x − x1).
+  const double d1 = (y1 - y0) / (x1 - x0);
+  const double d2 = ((y2 - y1) / (x2 - x1) - d1) / (x2 - x0);
+  if (!(d2 < 0.0)) return b;
+  const double vertex = 0.5 * (x0 + x1) - d1 / (2.0 * d2);
+  if (vertex < std::min(x0, x2) || vertex > std::max(x0, x2)) return b;
+  b.slip = vertex;
+  b.torque_nm = y0 + d1 * (vertex - x0) + d2 * (vertex - x0) * (vertex - x1);
+  b.refined = true;
+  return b;
+}
+
+}  // namespace
+
+HarmonicPoint HarmonicStudy::solve_point(double slip, const std::vector<double>& start_b_peak,
+                                         std::vector<double>& b_peak, int& iterations) {
+  HarmonicSettings settings;
+  settings.initial_b_peak_tesla = start_b_peak;
+  const SequenceFields f = solve_sequences(system_->assembler(), model_, winding_, cage_.get(),
+                                           omega_, slip, source_, settings);
+  b_peak = f.positive.b_peak_tesla;
+  iterations = f.positive.iterations + (f.has_negative ? f.negative.iterations : 0);
+  return evaluate_point(point_context(), f, slip);
+}
+
+void HarmonicStudy::solve_curves() {
+  const double start_s = now_s();
+  const StudySpec& st = case_.study;
+  std::vector<double> b_peak;  // the last converged point's, to start the next from
+  const auto solve_one = [&](double slip) {
+    CurvePoint c;
+    std::vector<double> b;
+    try {
+      c.point = solve_point(slip, b_peak, b, c.iterations);
+      c.converged = true;
+      b_peak = b;
+    } catch (const NumericalError& e) {
+      // One point that does not settle does not end the curve: it is marked and said.
+      c.point.slip = slip;
+      c.failure = e.what();
+      fmt::print(stderr, "warning: slip {:.4g}: {}\n", slip, e.what());
+    }
+    return c;
+  };
+  for (int k = 0; k < st.points; ++k) {
+    const double slip = st.slip_from + (st.slip_to - st.slip_from) * k / (st.points - 1);
+    curve_.push_back(solve_one(slip));
+    fmt::print(stderr, "slip {:.4f}: {} ({} solves)\n", slip,
+               curve_.back().converged ? "done" : "NOT settled", curve_.back().iterations);
+  }
+  for (const CurvePoint& c : curve_)
+    if (std::abs(c.point.slip - 1.0) < 1e-12) standstill_ = c;
+  if (!standstill_) standstill_ = solve_one(1.0);
+  if (st.rated_given) rated_ = solve_one(slip_);
+  solve_s_ = now_s() - start_s;
+}
+
+void HarmonicStudy::write_curves() {
+  namespace fs = std::filesystem;
+  using json = nlohmann::json;
+  const double pi = std::numbers::pi;
+  const double sync_rpm = 60.0 * case_.supply.frequency_hz / case_.machine.pole_pairs();
+  const double nan = std::nan("");
+  std::vector<double> slip, speed, torque, current, pf, efficiency, input, mechanical, copper, cage,
+      i2, bar, b_peak;
+  std::vector<long> converged, iterations;
+  for (const CurvePoint& c : curve_) {
+    const HarmonicPoint& p = c.point;
+    const auto value = [&](double v) { return c.converged ? v : nan; };
+    slip.push_back(p.slip);
+    speed.push_back((1.0 - p.slip) * sync_rpm);
+    torque.push_back(value(p.torque_nm));
+    current.push_back(value(p.current_rms_a()));
+    i2.push_back(value(std::abs(p.current_seq.negative) / std::sqrt(2.0)));
+    pf.push_back(value(p.power_factor()));
+    efficiency.push_back(value(p.efficiency_pct()));
+    input.push_back(value(p.input_w));
+    mechanical.push_back(value(p.mechanical_w));
+    copper.push_back(value(p.copper_w));
+    cage.push_back(value(p.cage_bars_w + p.cage_rings_w));
+    bar.push_back(value(p.bar_forward_rms_a));
+    b_peak.push_back(value(p.b_peak_tesla));
+    converged.push_back(c.converged ? 1 : 0);
+    iterations.push_back(c.iterations);
+  }
+  // Breakdown: over the points ordered by slip.
+  std::vector<std::size_t> order(slip.size());
+  for (std::size_t k = 0; k < order.size(); ++k) order[k] = k;
+  std::sort(order.begin(), order.end(), [&](auto a, auto b) { return slip[a] < slip[b]; });
+  std::vector<double> sorted_slip, sorted_torque;
+  for (std::size_t k : order) sorted_slip.push_back(slip[k]), sorted_torque.push_back(torque[k]);
+  const Breakdown breakdown = breakdown_of(sorted_slip, sorted_torque);
+
+  // results.h5: the curves, one row per point, in the order solved.
+  const std::string h5_path = folder_->path("results.h5");
+  {
+    ResultsFile h5(h5_path + ".partial");
+    h5.attribute("/", "schema", std::string("gapflux-results/1"));
+    h5.attribute("/", "study", std::string("slip_curves"));
+    h5.attribute("/", "case_name", case_.machine.name);
+    h5.attribute("/", "program_version", std::string(version_string));
+    h5.write("curves/slip", slip, "1");
+    h5.write("curves/speed", speed, "rpm");
+    h5.write("curves/torque", torque, "N*m");
+    h5.write("curves/current_positive_sequence", current, "A");
+    h5.write("curves/current_negative_sequence", i2, "A");
+    h5.write("curves/power_factor", pf, "1");
+    h5.write("curves/efficiency", efficiency, "%");
+    h5.write("curves/input_power", input, "W");
+    h5.write("curves/mechanical_power", mechanical, "W");
+    h5.write("curves/stator_copper_loss", copper, "W");
+    h5.write("curves/cage_loss", cage, "W");
+    h5.write("curves/bar_current_forward", bar, "A");
+    h5.write("curves/b_peak", b_peak, "T");
+    std::vector<double> settled(converged.begin(), converged.end());
+    h5.write("curves/converged", settled, "1");
+  }
+  fs::rename(h5_path + ".partial", h5_path);
+
+  const auto point_json = [&](const CurvePoint& c) {
+    const HarmonicPoint& p = c.point;
+    if (!c.converged) return json{{"slip", p.slip}, {"converged", false}, {"failure", c.failure}};
+    return json{{"slip", p.slip},
+                {"speed_rpm", (1.0 - p.slip) * sync_rpm},
+                {"torque_nm", p.torque_nm},
+                {"current_a", p.current_rms_a()},
+                {"power_factor", p.power_factor()},
+                {"efficiency_pct", p.efficiency_pct()},
+                {"input_w", p.input_w},
+                {"cage_w", p.cage_bars_w + p.cage_rings_w},
+                {"converged", true}};
+  };
+  json j;
+  j["schema"] = "gapflux-summary/1";
+  j["case_name"] = case_.machine.name;
+  j["program_version"] = version_string;
+  j["study"] = {{"kind", "slip_curves"},
+                {"slip_from", case_.study.slip_from},
+                {"slip_to", case_.study.slip_to},
+                {"points", case_.study.points},
+                {"frequency_hz", case_.supply.frequency_hz},
+                {"synchronous_speed_rpm", sync_rpm},
+                {"rotor_angle_deg", case_.study.rotor_angle_rad * 180.0 / pi},
+                {"model",
+                 "per slip the time-harmonic steady state (the supply's fundamental, rotor held, "
+                 "cage by the slip transformation, iron by the effective reluctivity; an "
+                 "unbalanced supply's negative sequence at slip 2 − s on the positive state)"}};
+  j["mesh"] = {{"dofs", system_->assembler().n_dofs()},
+               {"triangles", mesh_.n_triangles()},
+               {"order", mesh_.order},
+               {"sectors", mesh_.symmetry.sectors}};
+  int settled_points = 0, solves = 0;
+  for (const CurvePoint& c : curve_) settled_points += c.converged, solves += c.iterations;
+  j["solver"] = {{"converged", settled_points == static_cast<int>(curve_.size())},
+                 {"points_settled", settled_points},
+                 {"linear_solves", solves},
+                 {"wall_s", now_s() - wall_start_s_},
+                 {"set_up_s", set_up_s_},
+                 {"solve_s", solve_s_},
+                 {"mesh_s", mesh_s_},
+                 {"mesh_from_cache", mesh_from_cache_}};
+  j["curves"] = {{"slip", slip},
+                 {"speed_rpm", speed},
+                 {"torque_nm", torque},
+                 {"current_a", current},
+                 {"negative_sequence_current_a", i2},
+                 {"power_factor", pf},
+                 {"efficiency_pct", efficiency},
+                 {"input_w", input},
+                 {"mechanical_w", mechanical},
+                 {"stator_copper_w", copper},
+                 {"cage_w", cage},
+                 {"converged", converged},
+                 {"definitions",
+                  "current: the winding branches' positive-sequence RMS; torque: air-gap power "
+                  "over synchronous speed per sequence; efficiency: mechanical / input with no "
+                  "iron, friction, windage or stray-load loss (an upper bound); power factor: "
+                  "input / Σ V·I; a point that did not settle is null"}};
+  j["starting"] = point_json(*standstill_);
+  if (breakdown.found)
+    j["breakdown"] = {{"slip", breakdown.slip},
+                      {"torque_nm", breakdown.torque_nm},
+                      {"refined", breakdown.refined},
+                      {"method",
+                       "the largest torque of the points at positive slip, refined by the "
+                       "parabola through it and its two neighbours when it lies between them"}};
+  if (rated_) {
+    j["rated"] = point_json(*rated_);
+    if (rated_->converged && standstill_->converged && rated_->point.torque_nm > 0) {
+      j["starting"]["torque_per_rated"] = standstill_->point.torque_nm / rated_->point.torque_nm;
+      j["starting"]["current_per_rated"] =
+          standstill_->point.current_rms_a() / rated_->point.current_rms_a();
+      if (breakdown.found)
+        j["breakdown"]["torque_per_rated"] = breakdown.torque_nm / rated_->point.torque_nm;
+    }
+  }
+  j["cautions"] = {
+      "A model's estimate, not a measurement: starting, protection and thermal decisions rest on "
+      "the motor maker's data, local codes and licensed practice."};
+  {
+    const std::string path = (fs::path(out_dir_) / "summary.json").string();
+    std::ofstream out(path + ".partial");
+    out << j.dump(2) << "\n";
+    out.close();
+    if (!out) throw std::runtime_error("cannot write " + path);
+    fs::rename(path + ".partial", path);
+  }
+  summary_.converged = settled_points == static_cast<int>(curve_.size());
+  summary_.wall_s = now_s() - wall_start_s_;
+  summary_.set_up_s = set_up_s_;
+  summary_.mesh_s = mesh_s_;
+  summary_.mesh_from_cache = mesh_from_cache_;
+  summary_.steps = static_cast<int>(curve_.size());
+
+  fmt::print("case: {}\n", case_.machine.name);
+  fmt::print("slip curves at {:.2f} Hz: {} points ({} settled), {} linear solves, {:.1f} s\n",
+             case_.supply.frequency_hz, curve_.size(), settled_points, solves, solve_s_);
+  fmt::print("  {:>8} {:>9} {:>10} {:>9} {:>7} {:>8}\n", "slip", "rpm", "torque N·m", "I1 A", "pf",
+             "eff %");
+  for (std::size_t k = 0; k < curve_.size(); ++k)
+    fmt::print("  {:>8.4f} {:>9.1f} {:>10.3f} {:>9.3f} {:>7.3f} {:>8.2f}{}\n", slip[k], speed[k],
+               torque[k], current[k], pf[k], efficiency[k],
+               curve_[k].converged ? "" : "  (not settled)");
+  if (standstill_->converged)
+    fmt::print("starting (s = 1): torque {:.2f} N·m, current {:.2f} A\n",
+               standstill_->point.torque_nm, standstill_->point.current_rms_a());
+  if (breakdown.found)
+    fmt::print("breakdown: {:.2f} N·m at slip {:.4f}{}\n", breakdown.torque_nm, breakdown.slip,
+               breakdown.refined ? " (parabola through the largest point and its neighbours)" : "");
+  if (rated_ && rated_->converged)
+    fmt::print("rated (s = {:.4f}): torque {:.2f} N·m, current {:.2f} A, power factor {:.3f}\n",
+               rated_->point.slip, rated_->point.torque_nm, rated_->point.current_rms_a(),
+               rated_->point.power_factor());
+  fmt::print("wrote {}/results.h5 and summary.json\n", out_dir_);
+}
+
+}  // namespace gapflux
