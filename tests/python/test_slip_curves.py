@@ -16,7 +16,7 @@ standstill to slip −0.02:
   and both stop at a field change of 1e-4 per iteration, so to 1e-4; measured 2e-6);
 - plausibility for a general-purpose cage motor (IEC 60034-12, design N; from memory, not
   checked against the standard's tables): starting torque 1.5–3.5 × rated, breakdown torque
-  1.6–4 × rated, starting current 5–9 × rated (measured: 2.68, 3.65, 8.2);
+  1.6–4 × rated, starting current 5–9 × rated (measured: 2.68, 3.71, 8.2);
 - the curves in results.h5 equal summary.json's.
 """
 import json
