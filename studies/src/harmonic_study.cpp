@@ -8,10 +8,10 @@
 #include <chrono>
 #include <cmath>
 #include <filesystem>
-#include <fstream>
 #include <nlohmann/json.hpp>
 #include <numbers>
 
+#include "postproc/output_file.hpp"
 #include "postproc/results_file.hpp"
 #include "postproc/torque.hpp"
 #include "solver/circuit.hpp"
@@ -294,14 +294,7 @@ void HarmonicStudy::write_output() {
   j["cautions"] = {
       "A model's estimate, not a measurement: rotor heating and protection settings rest on the "
       "motor maker's data, local codes and licensed practice."};
-  {
-    const std::string path = (fs::path(out_dir_) / "summary.json").string();
-    std::ofstream out(path + ".partial");
-    out << j.dump(2) << "\n";
-    out.close();
-    if (!out) throw std::runtime_error("cannot write " + path);
-    fs::rename(path + ".partial", path);
-  }
+  write_file_whole((fs::path(out_dir_) / "summary.json").string(), j.dump(2) + "\n");
   summary_.converged = positive_.converged;
   summary_.wall_s = now_s() - wall_start_s_;
   summary_.set_up_s = set_up_s_;

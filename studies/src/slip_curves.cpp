@@ -7,11 +7,11 @@
 #include <chrono>
 #include <cmath>
 #include <filesystem>
-#include <fstream>
 #include <nlohmann/json.hpp>
 #include <numbers>
 
 #include "harmonic_study.hpp"
+#include "postproc/output_file.hpp"
 #include "postproc/results_file.hpp"
 #include "solver/newton.hpp"
 #include "version.hpp"
@@ -241,14 +241,7 @@ void HarmonicStudy::write_curves() {
   j["cautions"] = {
       "A model's estimate, not a measurement: starting, protection and thermal decisions rest on "
       "the motor maker's data, local codes and licensed practice."};
-  {
-    const std::string path = (fs::path(out_dir_) / "summary.json").string();
-    std::ofstream out(path + ".partial");
-    out << j.dump(2) << "\n";
-    out.close();
-    if (!out) throw std::runtime_error("cannot write " + path);
-    fs::rename(path + ".partial", path);
-  }
+  write_file_whole((fs::path(out_dir_) / "summary.json").string(), j.dump(2) + "\n");
   summary_.converged = settled_points == static_cast<int>(curve_.size());
   summary_.wall_s = now_s() - wall_start_s_;
   summary_.set_up_s = set_up_s_;

@@ -105,19 +105,17 @@ HarmonicPoint evaluate_point(const PointContext& c, const SequenceFields& f, dou
     for (const Complex& i : currents) largest = std::max(largest, std::abs(i) / std::sqrt(2.0));
     return largest;
   };
+  // Each sequence's cage loss and its largest bar current.
+  const auto cage_of = [&](const HarmonicState& s, double& loss_w, double& bar_rms_a) {
+    const HarmonicCageLoss loss =
+        harmonic_cage_loss(c.system->assembler(), *c.bar_of_region, *c.cage, s);
+    loss_w = loss.bars_w + loss.rings_w;
+    p.cage_bars_w += loss.bars_w, p.cage_rings_w += loss.rings_w;
+    bar_rms_a = largest_rms(s.bar_current_a);
+  };
   if (c.cage) {
-    const HarmonicCageLoss one =
-        harmonic_cage_loss(c.system->assembler(), *c.bar_of_region, *c.cage, f.positive);
-    p.cage_forward_w = one.bars_w + one.rings_w;
-    p.cage_bars_w += one.bars_w, p.cage_rings_w += one.rings_w;
-    p.bar_forward_rms_a = largest_rms(f.positive.bar_current_a);
-    if (f.has_negative) {
-      const HarmonicCageLoss two =
-          harmonic_cage_loss(c.system->assembler(), *c.bar_of_region, *c.cage, f.negative);
-      p.cage_backward_w = two.bars_w + two.rings_w;
-      p.cage_bars_w += two.bars_w, p.cage_rings_w += two.rings_w;
-      p.bar_backward_rms_a = largest_rms(f.negative.bar_current_a);
-    }
+    cage_of(f.positive, p.cage_forward_w, p.bar_forward_rms_a);
+    if (f.has_negative) cage_of(f.negative, p.cage_backward_w, p.bar_backward_rms_a);
   }
   p.current_a = f.positive.branch_current_a;
   p.voltage_v = f.positive.branch_voltage_v;

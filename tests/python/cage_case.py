@@ -39,3 +39,17 @@ def cage_case(examples, path, slip, periods, steps_per_period=24, linear=True,
         s = s.replace("[supply]", "[materials]\n" + materials + defs + "\n[supply]", 1)
     open(path, "w").write(s + extra)
     return path
+
+
+COARSE_DEMO_MESH = "[mesh]\norder = 1\nband_nodes = 1008\nairgap_size_mm = 0.45\n"
+
+
+def coarse_demo(examples, name, steps_per_period=None):
+    """The demo case `name` as it is (saturated iron, die-cast cage) on a coarse first-order mesh,
+    without field snapshots; with `steps_per_period`, its 108 steps per period (and the comment
+    line after them) replaced."""
+    s = open(os.path.join(examples, name)).read()
+    s = re.sub(r"\[mesh\]\n(.*?)(?=\n\[)", COARSE_DEMO_MESH, s, flags=re.S)
+    if steps_per_period:
+        s = re.sub(r"steps_per_period = 108.*\n.*\n", f"steps_per_period = {steps_per_period}\n", s)
+    return s.replace("fields_every = 12", "fields_every = 100000")

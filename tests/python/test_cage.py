@@ -44,7 +44,7 @@ gapflux, examples, tmp = sys.argv[1:4]
 shutil.rmtree(tmp, ignore_errors=True)
 os.makedirs(tmp)
 sys.path.insert(0, os.path.dirname(__file__))
-from cage_case import cage_case
+from cage_case import cage_case, coarse_demo
 from tally import check, finish
 
 
@@ -157,11 +157,7 @@ check(abs(z2 - z1) < 0.02 * z1, f"Z2(s = 0.5) = {z2:.4f} Ω vs Z1(s = 1.5) = {z1
 print(f"Z2 at s = 0.5: {z2:.4f} Ω; Z1 at s = 1.5: {z1:.4f} Ω ({100 * (z2 / z1 - 1):+.3f} %)")
 
 # 5. The demo motor on the unbalanced bus, saturated: unbalance amplification, energy balance.
-demo = open(os.path.join(examples, "pump_4p36s_voltage.toml")).read()
-demo = re.sub(r"\[mesh\]\n(.*?)(?=\n\[)", "[mesh]\norder = 1\nband_nodes = 1008\nairgap_size_mm = 0.45\n",
-              demo, flags=re.S)
-demo = re.sub(r"steps_per_period = 108.*\n.*\n", "steps_per_period = 72\n", demo)
-demo = demo.replace("fields_every = 12", "fields_every = 100000")
+demo = coarse_demo(examples, "pump_4p36s_voltage.toml", steps_per_period=72)
 demo_case = os.path.join(tmp, "demo_unbalanced.toml")
 open(demo_case, "w").write(demo)
 out = os.path.join(tmp, "demo_unbalanced")

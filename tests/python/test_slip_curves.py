@@ -20,7 +20,6 @@ standstill to slip −0.02:
 - the curves in results.h5 equal summary.json's.
 """
 import json
-import math
 import os
 import re
 import shutil
@@ -34,12 +33,10 @@ gapflux, examples, tmp = sys.argv[1:4]
 shutil.rmtree(tmp, ignore_errors=True)
 os.makedirs(tmp)
 sys.path.insert(0, os.path.dirname(__file__))
+from cage_case import coarse_demo
 from tally import check, finish
 
-demo = open(os.path.join(examples, "pump_4p36s_running.toml")).read()
-demo = re.sub(r"\[mesh\]\n(.*?)(?=\n\[)", "[mesh]\norder = 1\nband_nodes = 1008\nairgap_size_mm = 0.45\n",
-              demo, flags=re.S)
-demo = demo.replace("fields_every = 12", "fields_every = 100000")
+demo = coarse_demo(examples, "pump_4p36s_running.toml")
 study = re.search(r"\[study\]\n.*?(?=\n\[output\])", demo, flags=re.S)
 check(study is not None, "the demo case has no [study] table before [output]")
 
