@@ -6,6 +6,7 @@
 // reluctivity state, and the two are added. run() shows the steps: set up, solve, write output.
 #include <Eigen/Core>
 #include <memory>
+#include <nlohmann/json_fwd.hpp>
 #include <string>
 
 #include "cases/case.hpp"
@@ -38,6 +39,9 @@ class HarmonicStudy {
   // from its neighbour's flux densities, and the standstill and rated points.
   void solve_curves();
   void write_curves();
+  // summary.json's equivalent_circuit (equivalent_circuit.hpp) from the no-load, standstill and
+  // rated points, with its torque against the field's at the check slips.
+  void add_equivalent_circuit(nlohmann::json& j) const;
   HarmonicPoint solve_point(double slip, const std::vector<double>& start_b_peak,
                             std::vector<double>& b_peak, int& iterations);
 
@@ -71,7 +75,8 @@ class HarmonicStudy {
     std::string failure;
   };
   std::vector<CurvePoint> curve_;
-  std::optional<CurvePoint> standstill_, rated_;
+  std::optional<CurvePoint> standstill_, rated_, no_load_;
+  std::vector<CurvePoint> circuit_checks_;  // between rated and breakdown (the circuit's check)
 };
 
 }  // namespace gapflux

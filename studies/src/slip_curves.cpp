@@ -10,6 +10,7 @@
 #include <nlohmann/json.hpp>
 #include <numbers>
 
+#include "equivalent_circuit.hpp"
 #include "harmonic_study.hpp"
 #include "postproc/output_file.hpp"
 #include "postproc/results_file.hpp"
@@ -96,7 +97,71 @@ void HarmonicStudy::solve_curves() {
     if (std::abs(c.point.slip - 1.0) < 1e-12) standstill_ = c;
   if (!standstill_) standstill_ = solve_one(1.0);
   if (st.rated_given) rated_ = solve_one(slip_);
+  // The equivalent circuit's no-load point, and three slips between rated and breakdown where
+  // the circuit (with the rated point's rotor branch) is held against the field.
+  no_load_ = solve_one(0.0);
+  if (rated_ && rated_->converged) {
+    std::vector<double> slips, torques;
+    for (const CurvePoint& c : curve_)
+      slips.push_back(c.point.slip), torques.push_back(c.converged ? c.point.torque_nm : -1e300);
+    const double breakdown_slip =
+        slips[std::max_element(torques.begin(), torques.end()) - torques.begin()];
+    if (breakdown_slip > slip_)
+      for (double f : {0.25, 0.5, 0.75})
+        circuit_checks_.push_back(solve_one(slip_ + f * (breakdown_slip - slip_)));
+  }
   solve_s_ = now_s() - start_s;
+}
+
+void HarmonicStudy::add_equivalent_circuit(nlohmann::json& j) const {
+  using json = nlohmann::json;
+  if (!no_load_->converged || !standstill_->converged) return;
+  const auto z_of = [](const HarmonicPoint& p) {
+    return p.voltage_seq.positive / p.current_seq.positive;
+  };
+  StatorBranches stator;
+  try {
+    stator = stator_branches(winding_.impedance.resistance_ohm, z_of(no_load_->point),
+                             z_of(standstill_->point));
+  } catch (const std::runtime_error& e) {
+    j["equivalent_circuit"] = {{"failure", e.what()}};
+    return;
+  }
+  const auto rotor_json = [&](const HarmonicPoint& p) {
+    const RotorBranch r = rotor_branch(stator, z_of(p), p.slip);
+    return json{{"slip", p.slip}, {"r2_ohm", r.r2_ohm}, {"x2_leakage_ohm", r.x2_leakage_ohm}};
+  };
+  json e = {{"r1_ohm", stator.r1_ohm},
+            {"x1_leakage_ohm", stator.x1_leakage_ohm},
+            {"xm_ohm", stator.xm_ohm},
+            {"standstill", rotor_json(standstill_->point)},
+            {"per",
+             "winding branch (a star's phase, a delta's branch), positive sequence, at the "
+             "supply frequency; rotor values referred to the stator"},
+            {"method",
+             "no-load (s = 0) impedance gives R1 + j(X1σ + Xm); the standstill impedance with "
+             "X1σ = X2σ' there gives X1σ and R2'; at another slip the rotor branch follows from "
+             "that slip's impedance with X1σ and Xm held (a no-load and locked-rotor test on "
+             "the field solutions)"}};
+  if (rated_ && rated_->converged) {
+    e["rated"] = rotor_json(rated_->point);
+    // The circuit with the rated point's rotor branch against the field at the check slips:
+    // torque = air-gap power over synchronous speed, from the same positive-sequence voltage.
+    const RotorBranch r = rotor_branch(stator, z_of(rated_->point), rated_->point.slip);
+    const double sync_rad_s = omega_ / case_.machine.pole_pairs();
+    json checks = json::array();
+    for (const CurvePoint& c : circuit_checks_) {
+      if (!c.converged) continue;
+      const std::complex<double> v = c.point.voltage_seq.positive;
+      const std::complex<double> i = v / circuit_impedance(stator, r, c.point.slip);
+      const double gap_w = 3.0 * 0.5 * ((v * std::conj(i)).real() - stator.r1_ohm * std::norm(i));
+      checks.push_back({{"slip", c.point.slip},
+                        {"torque_field_nm", c.point.torque_positive_nm},
+                        {"torque_circuit_nm", gap_w / sync_rad_s}});
+    }
+    e["torque_checks"] = checks;
+  }
+  j["equivalent_circuit"] = e;
 }
 
 void HarmonicStudy::write_curves() {
@@ -238,6 +303,7 @@ void HarmonicStudy::write_curves() {
         j["breakdown"]["torque_per_rated"] = breakdown.torque_nm / rated_->point.torque_nm;
     }
   }
+  add_equivalent_circuit(j);
   j["cautions"] = {
       "A model's estimate, not a measurement: starting, protection and thermal decisions rest on "
       "the motor maker's data, local codes and licensed practice."};
@@ -268,6 +334,25 @@ void HarmonicStudy::write_curves() {
     fmt::print("rated (s = {:.4f}): torque {:.2f} N·m, current {:.2f} A, power factor {:.3f}\n",
                rated_->point.slip, rated_->point.torque_nm, rated_->point.current_rms_a(),
                rated_->point.power_factor());
+  if (j.contains("equivalent_circuit") && j["equivalent_circuit"].contains("xm_ohm")) {
+    const json& e = j["equivalent_circuit"];
+    fmt::print(
+        "equivalent circuit per branch: R1 {:.4f} Ω, X1σ {:.4f} Ω, Xm {:.3f} Ω; R2' {:.4f} Ω, "
+        "X2σ' {:.4f} Ω at standstill",
+        e["r1_ohm"].get<double>(), e["x1_leakage_ohm"].get<double>(), e["xm_ohm"].get<double>(),
+        e["standstill"]["r2_ohm"].get<double>(), e["standstill"]["x2_leakage_ohm"].get<double>());
+    if (e.contains("rated"))
+      fmt::print("; {:.4f} Ω, {:.4f} Ω at rated slip", e["rated"]["r2_ohm"].get<double>(),
+                 e["rated"]["x2_leakage_ohm"].get<double>());
+    fmt::print("\n");
+    if (e.contains("torque_checks"))
+      for (const json& c : e["torque_checks"])
+        fmt::print(
+            "  circuit (rated rotor branch) at slip {:.4f}: torque {:.2f} N·m against the "
+            "field's {:.2f}\n",
+            c["slip"].get<double>(), c["torque_circuit_nm"].get<double>(),
+            c["torque_field_nm"].get<double>());
+  }
   fmt::print("wrote {}/results.h5 and summary.json\n", out_dir_);
 }
 

@@ -17,7 +17,17 @@ standstill to slip −0.02:
 - plausibility for a general-purpose cage motor (IEC 60034-12, design N; from memory, not
   checked against the standard's tables): starting torque 1.5–3.5 × rated, breakdown torque
   1.6–4 × rated, starting current 5–9 × rated (measured: 2.68, 3.71, 8.2);
-- the curves in results.h5 equal summary.json's.
+- the curves in results.h5 equal summary.json's;
+- the equivalent circuit (no-load and standstill impedances, X1σ = X2σ' at standstill): with
+  linear iron and a resistive cage (no saturation, little current displacement) the circuit
+  with the rated point's rotor branch gives the field's torque at three slips between rated and
+  breakdown within 3 % (the classical circuit is exact for such a machine; induction-machine
+  theory, e.g. Pyrhönen, Jokinen, Hrabovcová ch. 7, from memory; measured to 5e-6); on the
+  saturated demo its rotor branch shows current displacement and the closed slots' saturating
+  bridges: R2' higher and X2σ' lower at standstill than at rated slip (common practice, no
+  source; measured 0.441 against 0.389 Ω and 0.640 against 2.344 Ω). The saturated demo's
+  circuit is not held to 3 %: with its rated rotor branch it falls 16–46 % short of the field's
+  torque between rated and breakdown (printed), which is what constant parameters cost there.
 """
 import json
 import os
@@ -33,7 +43,7 @@ gapflux, examples, tmp = sys.argv[1:4]
 shutil.rmtree(tmp, ignore_errors=True)
 os.makedirs(tmp)
 sys.path.insert(0, os.path.dirname(__file__))
-from cage_case import coarse_demo
+from cage_case import cage_case, coarse_demo
 from tally import check, finish
 
 demo = coarse_demo(examples, "pump_4p36s_running.toml")
@@ -102,5 +112,36 @@ with h5py.File(os.path.join(out, "results.h5"), "r") as f:
         v = f["curves/" + name][:].ravel()
         check(np.allclose(v, np.array(c[key], dtype=float), rtol=1e-12, atol=0),
               f"results.h5 curves/{name} differs from summary.json")
+
+# The equivalent circuit.
+e = s["equivalent_circuit"]
+check("xm_ohm" in e, f"no equivalent circuit: {e}")
+if "xm_ohm" in e:
+    st, ra = e["standstill"], e["rated"]
+    check(st["r2_ohm"] > ra["r2_ohm"], f"R2' at standstill {st['r2_ohm']:.4f} Ω vs rated {ra['r2_ohm']:.4f} Ω")
+    check(st["x2_leakage_ohm"] < ra["x2_leakage_ohm"],
+          f"X2σ' at standstill {st['x2_leakage_ohm']:.4f} Ω vs rated {ra['x2_leakage_ohm']:.4f} Ω")
+    print(f"demo circuit: R1 {e['r1_ohm']:.4f}, X1σ {e['x1_leakage_ohm']:.4f}, Xm {e['xm_ohm']:.3f} Ω; "
+          f"R2' {st['r2_ohm']:.4f} / {ra['r2_ohm']:.4f} Ω, X2σ' {st['x2_leakage_ohm']:.4f} / "
+          f"{ra['x2_leakage_ohm']:.4f} Ω (standstill / rated); torque with the rated branch: " +
+          ", ".join(f"s {c['slip']:.3f}: {c['torque_circuit_nm']:.1f} vs {c['torque_field_nm']:.1f} N·m"
+                    for c in e["torque_checks"]))
+
+linear = cage_case(examples, os.path.join(tmp, "linear.toml"), slip=0.03, periods=2)
+text = re.sub(r"\[study\]\n.*?(?=\n\[output\])",
+              '[study]\nkind = "slip_curves"\npoints = 6\nslip = 0.03\n', open(linear).read(), flags=re.S)
+open(linear, "w").write(text)
+r = subprocess.run([gapflux, "run", linear, "--out", os.path.join(tmp, "linear")], capture_output=True,
+                   text=True)
+check(r.returncode == 0, f"linear slip curves failed ({r.returncode}): {r.stderr[-1500:]}")
+el = json.load(open(os.path.join(tmp, "linear", "summary.json")))["equivalent_circuit"]
+checks = el.get("torque_checks", [])
+check(len(checks) == 3, f"linear circuit checks: {checks}")
+for c in checks:
+    off = c["torque_circuit_nm"] / c["torque_field_nm"] - 1
+    check(abs(off) < 0.03, f"linear: circuit torque at slip {c['slip']:.3f} {c['torque_circuit_nm']:.4f} "
+          f"vs field {c['torque_field_nm']:.4f} N·m ({100 * off:+.3f} %)")
+    print(f"linear: circuit torque at slip {c['slip']:.3f} {c['torque_circuit_nm']:.4f} vs field "
+          f"{c['torque_field_nm']:.4f} N·m ({100 * off:+.4f} %)")
 
 finish()
