@@ -187,6 +187,45 @@ def case_parts(s):
             " ".join(html.escape(c) for c in s.get("cautions", [])) + "</div>"]
 
 
+def curves_parts(s):
+    """Slip curves: torque, current, power factor and efficiency against speed, the starting,
+    breakdown and rated points and the equivalent circuit."""
+    c = s["curves"]
+    speed = np.array(c["speed_rpm"], dtype=float)
+    series = [("torque_nm", "torque (N·m)"), ("current_a", "stator current I1 (A, RMS)"),
+              ("power_factor", "power factor"), ("efficiency_pct", "efficiency (%, no iron loss)")]
+    fig, axes = plt.subplots(2, 2, figsize=(9, 6))
+    for ax, (key, label) in zip(axes.ravel(), series):
+        ax.plot(speed, np.array([np.nan if v is None else v for v in c[key]], dtype=float),
+                color=INK, marker="o", ms=3, lw=1)
+        ax.set_xlabel("speed (rpm)")
+        ax.set_ylabel(label)
+    fig.tight_layout()
+    rows = [["points", f'{len(c["slip"])} from slip {s["study"]["slip_from"]:g} to '
+                       f'{s["study"]["slip_to"]:g} ({s["solver"]["points_settled"]} settled)'],
+            ["solver", f'{s["solver"]["linear_solves"]} linear solves, {s["solver"]["wall_s"]:.1f} s']]
+    for name in ("starting", "rated"):
+        p = s.get(name, {})
+        if p.get("converged"):
+            rows.append([name, f'slip {p["slip"]:.4f}: {p["torque_nm"]:.2f} N·m, {p["current_a"]:.2f} A, '
+                               f'power factor {p["power_factor"]:.3f}'])
+    if "breakdown" in s:
+        b = s["breakdown"]
+        rows.append(["breakdown", f'{b["torque_nm"]:.2f} N·m at slip {b["slip"]:.4f}'])
+    e = s.get("equivalent_circuit", {})
+    if "xm_ohm" in e:
+        rows.append(["equivalent circuit (per branch)",
+                     f'R1 {e["r1_ohm"]:.4f} Ω, X1σ {e["x1_leakage_ohm"]:.4f} Ω, Xm {e["xm_ohm"]:.3f} Ω; '
+                     f'R2\' {e["standstill"]["r2_ohm"]:.4f} Ω, X2σ\' {e["standstill"]["x2_leakage_ohm"]:.4f} Ω at standstill'])
+        for t in e.get("torque_checks", []):
+            rows.append([f'circuit at slip {t["slip"]:.4f}',
+                         f'{t["torque_circuit_nm"]:.2f} N·m against the field\'s {t["torque_field_nm"]:.2f}'])
+    return ["<h2>Slip curves</h2>" + table_html(["item", "value"], rows),
+            figure_html(fig, "Time-harmonic steady state against speed"),
+            "<div class='caution'><b>Cautions.</b> " +
+            " ".join(html.escape(x) for x in s.get("cautions", [])) + "</div>"]
+
+
 def write_page(out, s, parts):
     style = ("body{font-family:sans-serif;max-width:60em;margin:2em auto;color:#1d3557}"
              "table{border-collapse:collapse;margin:0.5em 0}td,th{border-bottom:1px solid #ccd;"
@@ -213,6 +252,8 @@ def main(out):
                  "needed); give the folder a `gapflux run` wrote into")
     s = json.load(open(summary_path))
     f = h5py.File(results_path, "r")
+    if s.get("study", {}).get("kind") == "slip_curves":
+        return write_page(out, s, curves_parts(s))
     if s.get("study", {}).get("kind") != "time_stepping":
         return write_page(out, s, case_parts(s) + static_sections(s, f))
     parts = []

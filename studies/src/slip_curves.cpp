@@ -182,7 +182,8 @@ void HarmonicStudy::write_curves() {
     current.push_back(value(p.current_rms_a()));
     i2.push_back(value(std::abs(p.current_seq.negative) / std::sqrt(2.0)));
     pf.push_back(value(p.power_factor()));
-    efficiency.push_back(value(p.efficiency_pct()));
+    // Generating (input ≤ 0): mechanical over input means nothing; left out.
+    efficiency.push_back(value(p.input_w > 0 ? p.efficiency_pct() : nan));
     input.push_back(value(p.input_w));
     mechanical.push_back(value(p.mechanical_w));
     copper.push_back(value(p.copper_w));

@@ -17,7 +17,7 @@ standstill to slip −0.02:
 - plausibility for a general-purpose cage motor (IEC 60034-12, design N; from memory, not
   checked against the standard's tables): starting torque 1.5–3.5 × rated, breakdown torque
   1.6–4 × rated, starting current 5–9 × rated (measured: 2.68, 3.71, 8.2);
-- the curves in results.h5 equal summary.json's;
+- the curves in results.h5 equal summary.json's, and the report draws them (one PNG, cautions);
 - the equivalent circuit (no-load and standstill impedances, X1σ = X2σ' at standstill): with
   linear iron and a resistive cage (no saturation, little current displacement) the circuit
   with the rated point's rotor branch gives the field's torque at three slips between rated and
@@ -29,6 +29,7 @@ standstill to slip −0.02:
   circuit is not held to 3 %: with its rated rotor branch it falls 16–46 % short of the field's
   torque between rated and breakdown (printed), which is what constant parameters cost there.
 """
+import base64
 import json
 import os
 import re
@@ -110,8 +111,21 @@ with h5py.File(os.path.join(out, "results.h5"), "r") as f:
     for name, key in (("slip", "slip"), ("torque", "torque_nm"),
                       ("current_positive_sequence", "current_a"), ("efficiency", "efficiency_pct")):
         v = f["curves/" + name][:].ravel()
-        check(np.allclose(v, np.array(c[key], dtype=float), rtol=1e-12, atol=0),
+        check(np.allclose(v, np.array(c[key], dtype=float), rtol=1e-12, atol=0, equal_nan=True),
               f"results.h5 curves/{name} differs from summary.json")
+
+# The report draws the curves (postproc/report/make_report.py, matplotlib): one embedded PNG
+# that decodes, and the cautions on the page.
+report = os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "postproc", "report",
+                      "make_report.py")
+r = subprocess.run([sys.executable, report, out], capture_output=True, text=True)
+check(r.returncode == 0, f"report failed: {r.stderr[-800:]}")
+if r.returncode == 0:
+    page = open(os.path.join(out, "report.html")).read()
+    images = re.findall(r"base64,([A-Za-z0-9+/=]+)", page)
+    check(len(images) == 1 and base64.b64decode(images[0])[:8] == b"\x89PNG\r\n\x1a\n",
+          f"report: {len(images)} images")
+    check("Cautions" in page and "licensed practice" in page, "report: no cautions")
 
 # The equivalent circuit.
 e = s["equivalent_circuit"]
