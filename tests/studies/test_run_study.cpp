@@ -64,8 +64,9 @@ Case coarse_running_pump() {
 
 }  // namespace
 
-TEST_CASE("slip curves: each point conserves energy; the curve runs from motoring past synchronism",
-          "[studies][harmonic]") {
+TEST_CASE(
+    "slip curves: each point conserves energy, and the curve runs from motoring past synchronism",
+    "[studies][harmonic]") {
   // Poynting's theorem for the discrete field, whose iron is lossless (common practice, no
   // source): per point the cage loss is s × the air-gap power (input − stator copper), to
   // rounding (1e-9 of the input; 5e-15 measured).
