@@ -79,25 +79,17 @@ void HarmonicStudy::set_up() {
   slip_ = slip_of(case_);
   omega_ = 2.0 * pi * case_.supply.frequency_hz;
   const WindingResistance r = phase_resistance(case_, lamination_, materials_.coils);
-  winding_.coupling = coil_coupling(system_->assembler(), coils_);
-  winding_.connection = case_.supply.connection;
-  winding_.impedance = {r.resistance_ohm, r.end_inductance_h};
-  winding_.linkage_scale = case_.machine.stack_length_m * mesh_.symmetry.sectors;
-  winding_.voltage_fed = case_.supply.voltage_fed();
+  winding_ = harmonic_winding(case_, system_->assembler(), coils_,
+                              {r.resistance_ohm, r.end_inductance_h}, mesh_.symmetry.sectors);
 
   if (case_.rotor.kind == RotorKind::cage && case_.rotor.bar_currents == BarCurrents::induced) {
     cage_values_ = cage_values(case_, lamination_, materials_);
     bar_of_region_.assign(mesh_.regions.size(), -1);
-    model_.eddy_s_per_m.assign(mesh_.regions.size(), 0.0);
     for (std::size_t k = 0; k < mesh_.regions.size(); ++k)
-      if (mesh_.regions[k].tag.kind == RegionKind::bar) {
+      if (mesh_.regions[k].tag.kind == RegionKind::bar)
         bar_of_region_[k] = mesh_.regions[k].tag.index;
-        model_.eddy_s_per_m[k] = cage_values_->circuit.conductivity_s_per_m;
-      }
-    cage_ = std::make_unique<HarmonicCage>();
-    cage_->parameters = cage_values_->circuit;
-    cage_->coupling = bar_coupling(system_->assembler(), bar_of_region_, cage_->parameters.bars,
-                                   cage_->bar_area_m2);
+    cage_ = std::make_unique<HarmonicCage>(
+        harmonic_cage(system_->assembler(), cage_values_->circuit, bar_of_region_, model_));
   }
   // The fundamental of the supply, referred to the start instant, where the rotor is held.
   source_ = supply_fundamental(case_.supply, winding_.voltage_fed, case_.study.time_s);

@@ -54,6 +54,29 @@ Eigen::Vector3cd supply_fundamental(const SupplySpec& supply, bool voltage_fed, 
   return sum * (2.0 / samples);
 }
 
+HarmonicWinding harmonic_winding(const Case& c, const Assembler& assembler,
+                                 const CoilRegions& coils, const BranchImpedance& impedance,
+                                 int sectors) {
+  HarmonicWinding w;
+  w.coupling = coil_coupling(assembler, coils);
+  w.connection = c.supply.connection;
+  w.impedance = impedance;
+  w.linkage_scale = c.machine.stack_length_m * sectors;
+  w.voltage_fed = c.supply.voltage_fed();
+  return w;
+}
+
+HarmonicCage harmonic_cage(const Assembler& assembler, const CageParameters& cage,
+                           const std::vector<int>& bar_of_region, RegionModel& model) {
+  HarmonicCage h;
+  h.parameters = cage;
+  h.coupling = bar_coupling(assembler, bar_of_region, cage.bars, h.bar_area_m2);
+  model.eddy_s_per_m.assign(bar_of_region.size(), 0.0);
+  for (std::size_t r = 0; r < bar_of_region.size(); ++r)
+    if (bar_of_region[r] >= 0) model.eddy_s_per_m[r] = cage.conductivity_s_per_m;
+  return h;
+}
+
 SequenceFields solve_sequences(const Assembler& assembler, const RegionModel& model,
                                HarmonicWinding winding, const HarmonicCage* cage,
                                double omega_rad_per_s, double slip, const Eigen::Vector3cd& source,

@@ -5,8 +5,10 @@
 #include <complex>
 
 #include "cases/case.hpp"
+#include "solver/circuit.hpp"
 #include "solver/harmonic_field.hpp"
 #include "solver/magnetostatic_system.hpp"
+#include "solver/winding_sources.hpp"
 
 namespace gapflux {
 
@@ -25,6 +27,16 @@ double slip_of(const Case& c);
 // else currents), complex amplitudes referred to `t_ref_s` (X(t) = Re{X̂·e^{jω(t − t_ref)}}), by
 // a DFT over one period; the supply's harmonics drop out.
 Eigen::Vector3cd supply_fundamental(const SupplySpec& supply, bool voltage_fed, double t_ref_s);
+
+// The winding in phasor form on `assembler` (its source is set by solve_sequences): the case's
+// connection and feed, R and end-winding L per branch, the linkage scale of `sectors`.
+HarmonicWinding harmonic_winding(const Case& c, const Assembler& assembler,
+                                 const CoilRegions& coils, const BranchImpedance& impedance,
+                                 int sectors);
+// The induced cage in phasor form; gives the bars' regions of `model` the cage's conductivity.
+// `bar_of_region`: each mesh region's bar in the sector, −1 elsewhere.
+HarmonicCage harmonic_cage(const Assembler& assembler, const CageParameters& cage,
+                           const std::vector<int>& bar_of_region, RegionModel& model);
 
 // The positive sequence of `source` at slip s, its effective reluctivity iterated; the negative
 // one (when there is one) at slip 2 − s on those reluctivities. `winding.source` is ignored.

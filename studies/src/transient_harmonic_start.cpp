@@ -39,24 +39,14 @@ void TransientStudy::start_from_harmonic(MagnetostaticSystem& system, const Regi
   const double dt = grid_.dt_s;
 
   // Set up: the winding and the cage in phasor form, on the first step's system.
-  HarmonicWinding winding;
-  winding.coupling = coil_coupling(system.assembler(), coils_);
-  winding.connection = case_.supply.connection;
-  winding.impedance = {winding_r_.resistance_ohm, winding_r_.end_inductance_h};
-  winding.linkage_scale = case_.machine.stack_length_m * mesh_.symmetry.sectors;
-  winding.voltage_fed = case_.supply.voltage_fed();
+  const HarmonicWinding winding = harmonic_winding(
+      case_, system.assembler(), coils_, {winding_r_.resistance_ohm, winding_r_.end_inductance_h},
+      mesh_.symmetry.sectors);
   RegionModel harmonic_model = model;  // the sources in it are not used
   std::unique_ptr<HarmonicCage> cage;
-  if (cage_wanted()) {
-    cage = std::make_unique<HarmonicCage>();
-    cage->parameters = cage_values_.circuit;
-    cage->coupling =
-        bar_coupling(system.assembler(), bar_of_region_, cage->parameters.bars, cage->bar_area_m2);
-    harmonic_model.eddy_s_per_m.assign(mesh_.regions.size(), 0.0);
-    for (std::size_t r = 0; r < mesh_.regions.size(); ++r)
-      if (bar_of_region_[r] >= 0)
-        harmonic_model.eddy_s_per_m[r] = cage_values_.circuit.conductivity_s_per_m;
-  }
+  if (cage_wanted())
+    cage = std::make_unique<HarmonicCage>(
+        harmonic_cage(system.assembler(), cage_values_.circuit, bar_of_region_, harmonic_model));
 
   // Solve: both sequences of the supply's fundamental, referred to the first step's instant.
   const Eigen::Vector3cd source =

@@ -81,10 +81,10 @@ SaturationMap TransientStudy::saturation_over_last_period(int done, const std::v
   return map;
 }
 
-RunRecord TransientStudy::settle_record(int done) const {
-  RunRecord r;
+void TransientStudy::read_settle_rows(int done, RunRecord& r) const {
   r.frequency_hz = grid_.frequency_hz;
   r.steps_per_period = grid_.steps_per_period;
+  if (done == 0) return;
   r.time_s = h5_->read("steps/time");
   const std::vector<double> psi = h5_->read("steps/flux_linkage");
   for (int n = 0; n < done; ++n)
@@ -92,34 +92,27 @@ RunRecord TransientStudy::settle_record(int done) const {
   r.torque_nm = h5_->read("steps/torque");
   if (h5_->exists("steps/cage_wave")) {
     const std::vector<double> w = h5_->read("steps/cage_wave");
-    for (std::size_t n = 0; n + 1 < w.size(); n += 2) r.cage_wave_a.emplace_back(w[n], w[n + 1]);
+    for (int n = 0; n < done && 2 * n + 1 < static_cast<int>(w.size()); ++n)
+      r.cage_wave_a.emplace_back(w[2 * n], w[2 * n + 1]);
   }
+}
+
+RunRecord TransientStudy::settle_record(int done) const {
+  RunRecord r;
+  read_settle_rows(done, r);
   return r;
 }
 
 RunRecord TransientStudy::read_record(int done) const {
   RunRecord r;
-  r.frequency_hz = grid_.frequency_hz;
-  r.steps_per_period = grid_.steps_per_period;
+  read_settle_rows(done, r);
   // The last whole periods of the retained steps that finished.
   r.periods = std::max(0, done - grid_.discarded_steps) / grid_.steps_per_period;
   r.first_step = done - r.periods * grid_.steps_per_period;
   if (done == 0) return r;
-  r.time_s = h5_->read("steps/time");
   const std::vector<double> i = h5_->read("steps/phase_current");
-  const std::vector<double> psi = h5_->read("steps/flux_linkage");
   for (int n = 0; n < done; ++n)
-    for (int k = 0; k < 3; ++k) {
-      r.current_a[k].push_back(i[n * 3 + k]);
-      r.flux_linkage_wb[k].push_back(psi[n * 3 + k]);
-    }
-  r.torque_nm = h5_->read("steps/torque");
-  if (h5_->exists("steps/cage_wave")) {
-    const std::vector<double> w = h5_->read("steps/cage_wave");
-    for (std::size_t n = 0;
-         n + 1 < w.size() && r.cage_wave_a.size() < static_cast<std::size_t>(done); n += 2)
-      r.cage_wave_a.emplace_back(w[n], w[n + 1]);
-  }
+    for (int k = 0; k < 3; ++k) r.current_a[k].push_back(i[n * 3 + k]);
   if (circuit_) {
     r.voltage_fed = true;
     const auto rows = [&](const char* name, std::array<std::vector<double>, 3>& out) {

@@ -103,7 +103,9 @@ class TransientStudy {
     return detail_ == OutputDetail::full && n % case_.output.fields_every == 0;
   }
   RunRecord read_record(int done) const;  // the finished steps, for the analysis
-  // What the steady-state indicator reads (time, flux linkage, torque, cage wave), lighter.
+  // What the steady-state indicator reads (time, flux linkage, torque, cage wave) into `r`; and
+  // a record of only that, lighter than read_record's.
+  void read_settle_rows(int done, RunRecord& r) const;
   RunRecord settle_record(int done) const;
   // study.stop_when_settled: after a whole period (from the second on), whether the steady-state
   // indicator is within its tolerance; if so the analysis window becomes that period.
