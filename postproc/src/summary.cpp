@@ -129,6 +129,48 @@ void add_analysis(json& j, const RunAnalysis& a, std::size_t max_waves) {
       {"backward_tesla", a.locus.backward_tesla}, {"major_axis_deg_el", a.locus.major_axis_deg_el}};
 }
 
+// start = "time_harmonic": the harmonic model's prediction beside what the stepping gave over the
+// analysis window, and their differences (the comparison a user checks the quick model with).
+json start_prediction_json(const RunSummary& s) {
+  const RunSummary::HarmonicPrediction& p = *s.start_prediction;
+  json predicted = {{"slip", p.slip},
+                    {"torque_nm", p.torque_nm},
+                    {"current_positive_a", p.current_positive_a},
+                    {"current_negative_a", p.current_negative_a}};
+  if (s.cage)
+    predicted.update({{"bar_forward_rms_a", p.bar_forward_rms_a},
+                      {"bar_backward_rms_a", p.bar_backward_rms_a},
+                      {"cage_loss_w", p.cage_w}});
+  json stepped = json::object();
+  if (s.torque_available) stepped["torque_nm"] = s.torque_mean_nm;
+  const HarmonicPhasors* f =
+      s.analysis && s.analysis->periods >= 1 ? find_order(s.analysis->current, 1.0) : nullptr;
+  if (f) {
+    stepped["current_positive_a"] = std::abs(f->sequences.positive);
+    stepped["current_negative_a"] = std::abs(f->sequences.negative);
+  }
+  if (s.cage && f) {
+    const CageAnalysis& c = s.cage->analysis;
+    stepped.update({{"bar_forward_rms_a", c.forward_bar_rms_a},
+                    {"bar_backward_rms_a", c.backward_bar_rms_a},
+                    {"cage_loss_w", c.loss_forward_w + c.loss_backward_w}});
+  }
+  json difference = json::object();
+  for (const auto& [key, value] : stepped.items()) {
+    const double v = value.get<double>(), q = predicted[key].get<double>();
+    difference[key] = v != 0.0 ? json(100.0 * (q - v) / std::abs(v)) : json(nullptr);
+  }
+  return {{"predicted", predicted},
+          {"stepped", stepped},
+          {"difference_pct", difference},
+          {"note",
+           "predicted: the time-harmonic solution the run started from (supply fundamental, rotor "
+           "held, the negative sequence at slip 2 − s on the positive sequence's effective "
+           "reluctivity); stepped: the analysis window of this run (currents: fundamental "
+           "sequences of the winding branches, RMS; cage loss: its forward and backward waves' "
+           "shares). difference = (predicted − stepped) / |stepped|"}};
+}
+
 }  // namespace
 
 void write_summary_json(const std::string& path, const RunSummary& s) {
@@ -294,6 +336,7 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
          "frequencies fitted to each bar triangle and ring segment; the rest is harmonics and "
          "what is left of the start"}};
   }
+  if (s.start_prediction) j["time_harmonic_start"] = start_prediction_json(s);
   if (s.power) {
     const PowerBalance& p = *s.power;
     j["power"] = {

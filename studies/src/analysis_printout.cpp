@@ -141,6 +141,17 @@ void print_cage_and_power(std::FILE* out, const RunSummary& s) {
                "displacement)\n",
                p.efficiency_pct, p.iron_w, p.power_factor, p.displacement_factor);
   }
+  if (s.start_prediction && s.analysis && s.analysis->periods >= 1) {
+    const RunSummary::HarmonicPrediction& p = *s.start_prediction;
+    if (const HarmonicPhasors* f = find_order(s.analysis->current, 1.0))
+      fmt::print(out,
+                 "  time-harmonic model (the start) against this run: torque {:.2f} vs {:.2f} "
+                 "N·m; current positive sequence {:.2f} vs {:.2f} A, negative {:.3f} vs {:.3f} "
+                 "A (RMS)\n",
+                 p.torque_nm, s.torque_mean_nm, p.current_positive_a,
+                 std::abs(f->sequences.positive), p.current_negative_a,
+                 std::abs(f->sequences.negative));
+  }
   if (s.negative_sequence_impedance_ohm)
     fmt::print(out,
                "  negative-sequence impedance V2/I2 = {:.3f} Ω at {:.1f}°; current unbalance "

@@ -408,6 +408,14 @@ void TransientStudy::finish(const std::string& failure) {
   s.start = case_.study.start == StartKind::time_harmonic ? "time_harmonic" : "cold";
   s.start_harmonic_solves = start_iterations_;
   s.start_harmonic_s = start_s_;
+  if (h5_->exists("start/predicted")) {  // also after a resume, which does not start again
+    const std::vector<double> p = h5_->read("start/predicted");
+    if (p.size() == 7)
+      s.start_prediction = RunSummary::HarmonicPrediction{p[0], p[1], p[2], p[3], p[4], p[5], p[6]};
+    if (h5_->has_attribute("/", "start_harmonic_iterations"))
+      s.start_harmonic_solves =
+          static_cast<int>(h5_->read_long_attribute("/", "start_harmonic_iterations"));
+  }
   s.settled_stop = case_.study.stop_when_settled;
   s.settled_at_period = settled_at_period_;
   s.periods_run = done / grid_.steps_per_period;

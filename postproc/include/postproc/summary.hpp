@@ -96,6 +96,15 @@ struct RunSummary {
   std::string start;
   int start_harmonic_solves = 0;
   double start_harmonic_s = 0.0;
+  // What that time-harmonic solution predicted (fundamental only; winding branch currents' RMS
+  // sequences, the bars' forward and backward RMS, the cage's loss), shown beside what the
+  // stepping gave.
+  struct HarmonicPrediction {
+    double slip = 0.0, torque_nm = 0.0;
+    double current_positive_a = 0.0, current_negative_a = 0.0;
+    double bar_forward_rms_a = 0.0, bar_backward_rms_a = 0.0, cage_w = 0.0;
+  };
+  std::optional<HarmonicPrediction> start_prediction;
   // study.stop_when_settled: whether it was asked, the period that settled (0: none did), the
   // periods run and the most allowed.
   bool settled_stop = false;
