@@ -219,7 +219,9 @@ def curves_parts(s):
                      f'R2\' {e["standstill"]["r2_ohm"]:.4f} Ω, X2σ\' {e["standstill"]["x2_leakage_ohm"]:.4f} Ω at standstill'])
         for t in e.get("torque_checks", []):
             rows.append([f'circuit at slip {t["slip"]:.4f}',
-                         f'{t["torque_circuit_nm"]:.2f} N·m against the field\'s {t["torque_field_nm"]:.2f}'])
+                         f'{t["torque_circuit_nm"]:.2f} N·m (rated rotor branch), '
+                         f'{t.get("torque_saturating_circuit_nm", float("nan")):.2f} N·m (saturating) '
+                         f'against the field\'s {t["torque_field_nm"]:.2f}'])
     return ["<h2>Slip curves</h2>" + table_html(["item", "value"], rows),
             figure_html(fig, "Time-harmonic steady state against speed"),
             "<div class='caution'><b>Cautions.</b> " +

@@ -145,21 +145,39 @@ void HarmonicStudy::add_equivalent_circuit(nlohmann::json& j) const {
              "the field solutions)"}};
   if (rated_ && rated_->converged) {
     e["rated"] = rotor_json(rated_->point);
-    // The circuit with the rated point's rotor branch against the field at the check slips:
+    // The circuit against the field at the check slips, with the rated point's rotor branch
+    // and with the rotor branch that follows slip and current between rated and standstill:
     // torque = air-gap power over synchronous speed, from the same positive-sequence voltage.
-    const RotorBranch r = rotor_branch(stator, z_of(rated_->point), rated_->point.slip);
+    const HarmonicPoint& rated = rated_->point;
+    const HarmonicPoint& still = standstill_->point;
+    const RotorBranch r = rotor_branch(stator, z_of(rated), rated.slip);
+    const SaturatingRotor saturating = saturating_rotor(
+        stator, r, rated.slip, rated.voltage_seq.positive,
+        rotor_branch(stator, z_of(still), still.slip), still.slip, still.voltage_seq.positive);
     const double sync_rad_s = omega_ / case_.machine.pole_pairs();
+    const auto torque_nm = [&](std::complex<double> v, std::complex<double> i) {
+      return 3.0 * 0.5 * ((v * std::conj(i)).real() - stator.r1_ohm * std::norm(i)) / sync_rad_s;
+    };
     json checks = json::array();
     for (const CurvePoint& c : circuit_checks_) {
       if (!c.converged) continue;
       const std::complex<double> v = c.point.voltage_seq.positive;
-      const std::complex<double> i = v / circuit_impedance(stator, r, c.point.slip);
-      const double gap_w = 3.0 * 0.5 * ((v * std::conj(i)).real() - stator.r1_ohm * std::norm(i));
-      checks.push_back({{"slip", c.point.slip},
+      const double s = c.point.slip;
+      checks.push_back({{"slip", s},
                         {"torque_field_nm", c.point.torque_positive_nm},
-                        {"torque_circuit_nm", gap_w / sync_rad_s}});
+                        {"torque_circuit_nm", torque_nm(v, v / circuit_impedance(stator, r, s))},
+                        {"torque_saturating_circuit_nm",
+                         torque_nm(v, saturating_circuit_current(stator, saturating, s, v))}});
     }
     e["torque_checks"] = checks;
+    e["saturating_rotor"] = {
+        {"leakage_exponent", saturating.exponent},
+        {"rotor_current_rated_a", saturating.i2_rated / std::sqrt(2.0)},
+        {"rotor_current_standstill_a", saturating.i2_standstill / std::sqrt(2.0)},
+        {"model",
+         "R2' linear in √s between the rated and standstill values (current displacement); "
+         "X2σ' = X2σ'_rated·(I2'/I2'_rated)^−k, k from the two points (the bridges' saturation "
+         "and current displacement together); held at the nearer point's values outside them"}};
   }
   j["equivalent_circuit"] = e;
 }
@@ -349,10 +367,10 @@ void HarmonicStudy::write_curves() {
     if (e.contains("torque_checks"))
       for (const json& c : e["torque_checks"])
         fmt::print(
-            "  circuit (rated rotor branch) at slip {:.4f}: torque {:.2f} N·m against the "
-            "field's {:.2f}\n",
+            "  circuit at slip {:.4f}: torque {:.2f} N·m with the rated rotor branch, {:.2f} "
+            "N·m with the saturating one, against the field's {:.2f}\n",
             c["slip"].get<double>(), c["torque_circuit_nm"].get<double>(),
-            c["torque_field_nm"].get<double>());
+            c["torque_saturating_circuit_nm"].get<double>(), c["torque_field_nm"].get<double>());
   }
   fmt::print("wrote {}/results.h5 and summary.json\n", out_dir_);
 }

@@ -25,9 +25,13 @@ standstill to slip −0.02:
   theory, e.g. Pyrhönen, Jokinen, Hrabovcová ch. 7, from memory; measured to 5e-6); on the
   saturated demo its rotor branch shows current displacement and the closed slots' saturating
   bridges: R2' higher and X2σ' lower at standstill than at rated slip (common practice, no
-  source; measured 0.441 against 0.389 Ω and 0.640 against 2.344 Ω). The saturated demo's
-  circuit is not held to 3 %: with its rated rotor branch it falls 16–46 % short of the field's
-  torque between rated and breakdown (printed), which is what constant parameters cost there.
+  source; measured 0.441 against 0.389 Ω and 0.640 against 2.344 Ω). With its rated rotor
+  branch held constant the saturated demo's circuit falls 16–46 % short of the field's torque
+  between rated and breakdown (printed: what constant parameters cost there). The circuit whose
+  rotor branch follows slip and rotor current between the two extracted ones (R2' linear in √s,
+  X2σ' a power law in I2'; equivalent_circuit.hpp) is held to the issue's 3 % at the three
+  slips, on the saturated demo and on linear iron (it uses only the rated and standstill
+  extractions; measured −0.99 %, −0.31 %, +0.52 % on the demo, 2e-5 linear).
 """
 import base64
 import json
@@ -140,6 +144,15 @@ if "xm_ohm" in e:
           f"{ra['x2_leakage_ohm']:.4f} Ω (standstill / rated); torque with the rated branch: " +
           ", ".join(f"s {c['slip']:.3f}: {c['torque_circuit_nm']:.1f} vs {c['torque_field_nm']:.1f} N·m"
                     for c in e["torque_checks"]))
+    check(len(e["torque_checks"]) == 3, f"demo circuit checks: {e['torque_checks']}")
+    for c in e["torque_checks"]:
+        off = c["torque_saturating_circuit_nm"] / c["torque_field_nm"] - 1
+        check(abs(off) < 0.03, f"demo: saturating circuit's torque at slip {c['slip']:.3f} "
+              f"{c['torque_saturating_circuit_nm']:.2f} vs field {c['torque_field_nm']:.2f} N·m "
+              f"({100 * off:+.2f} %)")
+        print(f"demo: saturating circuit's torque at slip {c['slip']:.3f} "
+              f"{c['torque_saturating_circuit_nm']:.2f} vs field {c['torque_field_nm']:.2f} N·m "
+              f"({100 * off:+.2f} %)")
 
 linear = cage_case(examples, os.path.join(tmp, "linear.toml"), slip=0.03, periods=2)
 text = re.sub(r"\[study\]\n.*?(?=\n\[output\])",
@@ -152,6 +165,10 @@ el = json.load(open(os.path.join(tmp, "linear", "summary.json")))["equivalent_ci
 checks = el.get("torque_checks", [])
 check(len(checks) == 3, f"linear circuit checks: {checks}")
 for c in checks:
+    off = c["torque_saturating_circuit_nm"] / c["torque_field_nm"] - 1
+    check(abs(off) < 0.03, f"linear: saturating circuit's torque at slip {c['slip']:.3f} "
+          f"{c['torque_saturating_circuit_nm']:.4f} vs field {c['torque_field_nm']:.4f} N·m "
+          f"({100 * off:+.3f} %)")
     off = c["torque_circuit_nm"] / c["torque_field_nm"] - 1
     check(abs(off) < 0.03, f"linear: circuit torque at slip {c['slip']:.3f} {c['torque_circuit_nm']:.4f} "
           f"vs field {c['torque_field_nm']:.4f} N·m ({100 * off:+.3f} %)")
