@@ -42,8 +42,9 @@ class HarmonicStudy {
   // summary.json's equivalent_circuit (equivalent_circuit.hpp) from the no-load, standstill and
   // rated points, with its torque against the field's at the check slips.
   void add_equivalent_circuit(nlohmann::json& j) const;
-  HarmonicPoint solve_point(double slip, const std::vector<double>& start_b_peak,
-                            std::vector<double>& b_peak, int& iterations);
+  struct CurvePoint;
+  CurvePoint solve_point(double slip, const std::vector<double>& start_b_peak,
+                         std::vector<double>& b_peak);
 
   std::string case_path_, out_dir_;
   FolderUse folder_use_ = FolderUse::fresh;
@@ -70,6 +71,7 @@ class HarmonicStudy {
   // Slip curves: one entry per point (converged or not), and the standstill and rated points.
   struct CurvePoint {
     HarmonicPoint point;
+    SequenceImpedances impedance;  // Z1(s), Z2 = Z(2 − s) on the positive state
     bool converged = false;
     int iterations = 0;
     std::string failure;

@@ -57,15 +57,22 @@ Breakdown breakdown_of(const std::vector<double>& slip, const std::vector<double
 
 }  // namespace
 
-HarmonicPoint HarmonicStudy::solve_point(double slip, const std::vector<double>& start_b_peak,
-                                         std::vector<double>& b_peak, int& iterations) {
+HarmonicStudy::CurvePoint HarmonicStudy::solve_point(double slip,
+                                                     const std::vector<double>& start_b_peak,
+                                                     std::vector<double>& b_peak) {
   HarmonicSettings settings;
   settings.initial_b_peak_tesla = start_b_peak;
   const SequenceFields f = solve_sequences(system_->assembler(), model_, winding_, cage_.get(),
                                            omega_, slip, source_, settings);
   b_peak = f.positive.b_peak_tesla;
-  iterations = f.positive.iterations + (f.has_negative ? f.negative.iterations : 0);
-  return evaluate_point(point_context(), f, slip);
+  CurvePoint c;
+  c.impedance =
+      sequence_impedances(system_->assembler(), model_, winding_, cage_.get(), omega_, slip, f);
+  c.iterations = f.positive.iterations + (f.has_negative ? f.negative.iterations : 0) +
+                 c.impedance.probe_solves;
+  c.point = evaluate_point(point_context(), f, slip);
+  c.converged = true;
+  return c;
 }
 
 void HarmonicStudy::solve_curves() {
@@ -76,8 +83,7 @@ void HarmonicStudy::solve_curves() {
     CurvePoint c;
     std::vector<double> b;
     try {
-      c.point = solve_point(slip, b_peak, b, c.iterations);
-      c.converged = true;
+      c = solve_point(slip, b_peak, b);
       b_peak = b;
     } catch (const NumericalError& e) {
       // One point that does not settle does not end the curve: it is marked and said.
@@ -189,7 +195,7 @@ void HarmonicStudy::write_curves() {
   const double sync_rpm = 60.0 * case_.supply.frequency_hz / case_.machine.pole_pairs();
   const double nan = std::nan("");
   std::vector<double> slip, speed, torque, current, pf, efficiency, input, mechanical, copper, cage,
-      i2, bar, b_peak;
+      i2, bar, b_peak, z1_ohm, z1_deg, z2_ohm, z2_deg, z1_pairs, z2_pairs;
   std::vector<long> converged, iterations;
   for (const CurvePoint& c : curve_) {
     const HarmonicPoint& p = c.point;
@@ -208,6 +214,13 @@ void HarmonicStudy::write_curves() {
     cage.push_back(value(p.cage_bars_w + p.cage_rings_w));
     bar.push_back(value(p.bar_forward_rms_a));
     b_peak.push_back(value(p.b_peak_tesla));
+    const std::complex<double> z1 = c.impedance.positive_ohm, z2 = c.impedance.negative_ohm;
+    z1_ohm.push_back(value(std::abs(z1)));
+    z1_deg.push_back(value(std::arg(z1) * 180.0 / pi));
+    z2_ohm.push_back(value(std::abs(z2)));
+    z2_deg.push_back(value(std::arg(z2) * 180.0 / pi));
+    for (double v : {value(z1.real()), value(z1.imag())}) z1_pairs.push_back(v);
+    for (double v : {value(z2.real()), value(z2.imag())}) z2_pairs.push_back(v);
     converged.push_back(c.converged ? 1 : 0);
     iterations.push_back(c.iterations);
   }
@@ -240,6 +253,8 @@ void HarmonicStudy::write_curves() {
     h5.write("curves/cage_loss", cage, "W");
     h5.write("curves/bar_current_forward", bar, "A");
     h5.write("curves/b_peak", b_peak, "T");
+    h5.write("curves/impedance_positive_sequence", z1_pairs, "ohm", 2);
+    h5.write("curves/impedance_negative_sequence", z2_pairs, "ohm", 2);
     std::vector<double> settled(converged.begin(), converged.end());
     h5.write("curves/converged", settled, "1");
   }
@@ -292,6 +307,10 @@ void HarmonicStudy::write_curves() {
                  {"torque_nm", torque},
                  {"current_a", current},
                  {"negative_sequence_current_a", i2},
+                 {"impedance_positive_ohm", z1_ohm},
+                 {"impedance_positive_angle_deg", z1_deg},
+                 {"impedance_negative_ohm", z2_ohm},
+                 {"impedance_negative_angle_deg", z2_deg},
                  {"power_factor", pf},
                  {"efficiency_pct", efficiency},
                  {"input_w", input},
@@ -303,7 +322,11 @@ void HarmonicStudy::write_curves() {
                   "current: the winding branches' positive-sequence RMS; torque: air-gap power "
                   "over synchronous speed per sequence; efficiency: mechanical / input with no "
                   "iron, friction, windage or stray-load loss (an upper bound); power factor: "
-                  "input / Σ V·I; a point that did not settle is null"}};
+                  "input / Σ V·I; impedances: per winding branch, V/I of the positive sequence "
+                  "at slip s and of the negative sequence at slip 2 − s on the positive "
+                  "sequence's reluctivity (Z2, what a negative-sequence voltage meets; solved "
+                  "with a probe source when the supply has none); a point that did not settle "
+                  "is null"}};
   j["starting"] = point_json(*standstill_);
   if (breakdown.found)
     j["breakdown"] = {{"slip", breakdown.slip},

@@ -96,6 +96,28 @@ SequenceFields solve_sequences(const Assembler& assembler, const RegionModel& mo
   return out;
 }
 
+SequenceImpedances sequence_impedances(const Assembler& assembler, const RegionModel& model,
+                                       HarmonicWinding winding, const HarmonicCage* cage,
+                                       double omega_rad_per_s, double slip,
+                                       const SequenceFields& f) {
+  const auto z_of = [](const HarmonicState& s, bool negative) {
+    const Sequences v = sequences_of(s.branch_voltage_v), i = sequences_of(s.branch_current_a);
+    return negative ? v.negative / i.negative : v.positive / i.positive;
+  };
+  SequenceImpedances z;
+  z.positive_ohm = z_of(f.positive, false);
+  if (f.has_negative) {
+    z.negative_ohm = z_of(f.negative, true);
+    return z;
+  }
+  winding.source = negative_set(sequences_of(f.source_positive).positive);
+  const HarmonicState probe = solve_harmonic(assembler, model, winding, cage, omega_rad_per_s,
+                                             2.0 - slip, {}, &f.positive.reluctivity);
+  z.negative_ohm = z_of(probe, true);
+  z.probe_solves = probe.iterations;
+  return z;
+}
+
 double HarmonicPoint::current_rms_a() const {
   return std::abs(current_seq.positive) / std::sqrt(2.0);
 }

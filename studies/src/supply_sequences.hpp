@@ -50,6 +50,19 @@ SequenceFields solve_sequences(const Assembler& assembler, const RegionModel& mo
                                double omega_rad_per_s, double slip, const Eigen::Vector3cd& source,
                                const HarmonicSettings& settings = {});
 
+// The sequence impedances Z = V/I per winding branch: the positive one at slip s, the negative
+// one at slip 2 − s on the positive state (from the supply's own negative sequence, or, when it
+// has none, from one more linear solve with a negative-sequence source of the positive one's
+// size: the state is fixed, so its size does not matter).
+struct SequenceImpedances {
+  Complex positive_ohm{}, negative_ohm{};
+  int probe_solves = 0;
+};
+SequenceImpedances sequence_impedances(const Assembler& assembler, const RegionModel& model,
+                                       HarmonicWinding winding, const HarmonicCage* cage,
+                                       double omega_rad_per_s, double slip,
+                                       const SequenceFields& fields);
+
 // One operating point from its sequences' fields: what the winding takes and the rotor gives.
 // Per sequence the air-gap power (input less stator copper: the FE iron is lossless) and its
 // torque ±P_ag/Ω_sync (the equivalent circuit's); Arkkio's stress of the held-rotor field beside.

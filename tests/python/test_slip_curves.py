@@ -117,6 +117,23 @@ with h5py.File(os.path.join(out, "results.h5"), "r") as f:
         v = f["curves/" + name][:].ravel()
         check(np.allclose(v, np.array(c[key], dtype=float), rtol=1e-12, atol=0, equal_nan=True),
               f"results.h5 curves/{name} differs from summary.json")
+    for name, key in (("impedance_positive_sequence", "impedance_positive_ohm"),
+                      ("impedance_negative_sequence", "impedance_negative_ohm")):
+        z = f["curves/" + name][:]
+        check(z.shape == (len(slip), 2) and np.allclose(np.hypot(z[:, 0], z[:, 1]),
+                                                        np.array(c[key], dtype=float), rtol=1e-12),
+              f"results.h5 curves/{name} differs from summary.json")
+
+# Sequence impedances: at standstill both sequences meet the same rotor (slip 1 = 2 − 1) on the
+# same state, so Z2 = Z1 there (the slip transformation; common practice, no source), to 1e-6.
+z1 = np.array(c["impedance_positive_ohm"], dtype=float)
+z2 = np.array(c["impedance_negative_ohm"], dtype=float)
+a1 = np.array(c["impedance_positive_angle_deg"], dtype=float)
+a2 = np.array(c["impedance_negative_angle_deg"], dtype=float)
+check(abs(z2[0] / z1[0] - 1) < 1e-6 and abs(a2[0] - a1[0]) < 1e-4,
+      f"standstill: Z2 {z2[0]:.6f} Ω ∠{a2[0]:.4f}° vs Z1 {z1[0]:.6f} Ω ∠{a1[0]:.4f}°")
+print(f"sequence impedances: standstill Z1 {z1[0]:.4f} Ω ∠{a1[0]:.2f}°, Z2 {z2[0]:.4f} Ω; near "
+      f"synchronism (s {slip[-2]:.3f}) Z1 {z1[-2]:.3f} Ω, Z2 {z2[-2]:.4f} Ω ∠{a2[-2]:.2f}°")
 
 # The report draws the curves (postproc/report/make_report.py, matplotlib): one embedded PNG
 # that decodes, and the cautions on the page.
@@ -161,7 +178,8 @@ open(linear, "w").write(text)
 r = subprocess.run([gapflux, "run", linear, "--out", os.path.join(tmp, "linear")], capture_output=True,
                    text=True)
 check(r.returncode == 0, f"linear slip curves failed ({r.returncode}): {r.stderr[-1500:]}")
-el = json.load(open(os.path.join(tmp, "linear", "summary.json")))["equivalent_circuit"]
+linear_summary = json.load(open(os.path.join(tmp, "linear", "summary.json")))
+el = linear_summary["equivalent_circuit"]
 checks = el.get("torque_checks", [])
 check(len(checks) == 3, f"linear circuit checks: {checks}")
 for c in checks:
@@ -174,5 +192,25 @@ for c in checks:
           f"vs field {c['torque_field_nm']:.4f} N·m ({100 * off:+.3f} %)")
     print(f"linear: circuit torque at slip {c['slip']:.3f} {c['torque_circuit_nm']:.4f} vs field "
           f"{c['torque_field_nm']:.4f} N·m ({100 * off:+.4f} %)")
+
+# With linear iron the negative sequence at slip s is the positive sequence at slip 2 − s (the
+# state does not depend on the field; Fortescue and the slip transformation, common practice,
+# no source): the curve's Z2 at its fifth slip against a time-harmonic study at 2 − s, to 1e-6.
+lc = linear_summary["curves"]
+s5 = lc["slip"][4]
+at = linear.replace("linear.toml", "linear_2ms.toml")
+open(at, "w").write(re.sub(r"\[study\]\n.*?(?=\n\[output\])",
+                           f'[study]\nkind = "time_harmonic"\nslip = {2.0 - s5!r}\n', text,
+                           flags=re.S))
+r = subprocess.run([gapflux, "run", at, "--out", os.path.join(tmp, "linear_2ms")],
+                   capture_output=True, text=True)
+check(r.returncode == 0, f"time-harmonic at 2 − s failed ({r.returncode}): {r.stderr[-1500:]}")
+zp = json.load(open(os.path.join(tmp, "linear_2ms", "summary.json")))["supply"][
+    "positive_sequence_impedance"]
+z2 = lc["impedance_negative_ohm"][4]
+check(abs(z2 / zp["ohm"] - 1) < 1e-6 and abs(lc["impedance_negative_angle_deg"][4] - zp["angle_deg"]) < 1e-4,
+      f"linear: Z2 at slip {s5:.3f} {z2:.6f} Ω vs Z1 at slip {2 - s5:.3f} {zp['ohm']:.6f} Ω")
+print(f"linear: Z2 at slip {s5:.3f} {z2:.6f} Ω ∠{lc['impedance_negative_angle_deg'][4]:.3f}° vs "
+      f"Z1 at slip {2 - s5:.3f} {zp['ohm']:.6f} Ω ∠{zp['angle_deg']:.3f}°")
 
 finish()
