@@ -21,10 +21,12 @@ slots, measured here, so a 1 % tolerance):
   fundamental only; measured −0.31 %, −1.21 %, +0.80 %);
 - summary.json of a run started from the time-harmonic solution shows that solution's prediction
   beside the stepped result (`time_harmonic_start`), also after a resume; on an unbalanced supply
-  (VUF about 2 %) with the iron made linear, predicted and stepped agree within 3 % in torque and
-  in both sequences' currents and bar currents: with linear iron the sequences superpose and the
-  slip transformation is exact for the fundamental (Fortescue; common practice, no source), what
-  is left is the slot harmonics' own currents (measured: I2 −1.5 %, backward bars +0.9 %). With
+  (VUF about 2 %) with the iron made linear, predicted and stepped agree within 1 % in torque,
+  stator current and bar current (the issue's linear tolerance; measured +0.24 %, +0.24 %,
+  +0.77 %) and within 3 % in the negative sequence's current and bar current (measured −1.5 %,
+  +0.9 %; a small quantity, 2 % of the positive one): with linear iron the sequences superpose
+  and the slip transformation is exact for the fundamental (Fortescue; common practice, no
+  source), what is left is the slot harmonics' own currents. With
   saturation the prediction's negative sequence is ~30 % low on this closed-slot rotor (measured,
   docs/results.md), which is why the run shows both.
 """
@@ -169,10 +171,11 @@ check("time-harmonic model (the start) against this run" in r.stdout,
 lin = json.load(open(os.path.join(linear_out, "summary.json")))["time_harmonic_start"]
 check(lin["stepped"]["current_negative_a"] > 0.01 * lin["stepped"]["current_positive_a"],
       f"the unbalanced supply drew no negative sequence: {lin['stepped']}")
-for name in ("torque_nm", "current_positive_a", "current_negative_a", "bar_forward_rms_a",
-             "bar_backward_rms_a"):
+for name, tolerance_pct in (("torque_nm", 1.0), ("current_positive_a", 1.0),
+                            ("bar_forward_rms_a", 1.0), ("current_negative_a", 3.0),
+                            ("bar_backward_rms_a", 3.0)):
     off = lin["difference_pct"][name]
-    check(abs(off) < 3.0, f"linear, unbalanced: predicted {name} {lin['predicted'][name]:.4g} vs "
+    check(abs(off) < tolerance_pct, f"linear, unbalanced: predicted {name} {lin['predicted'][name]:.4g} vs "
           f"stepped {lin['stepped'][name]:.4g} ({off:+.2f} %)")
     print(f"linear, unbalanced: predicted {name} {lin['predicted'][name]:.4g} vs stepped "
           f"{lin['stepped'][name]:.4g} ({off:+.2f} %)")
