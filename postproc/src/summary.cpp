@@ -155,10 +155,13 @@ json start_prediction_json(const RunSummary& s) {
                     {"bar_backward_rms_a", c.backward_bar_rms_a},
                     {"cage_loss_w", c.loss_forward_w + c.loss_backward_w}});
   }
+  // Keyed by the quantity with the unit replaced by "pct" (torque_nm → torque_pct), so that a
+  // sweep's table titles it in %.
   json difference = json::object();
   for (const auto& [key, value] : stepped.items()) {
     const double v = value.get<double>(), q = predicted[key].get<double>();
-    difference[key] = v != 0.0 ? json(100.0 * (q - v) / std::abs(v)) : json(nullptr);
+    const std::string name = key.substr(0, key.rfind('_')) + "_pct";
+    difference[name] = v != 0.0 ? json(100.0 * (q - v) / std::abs(v)) : json(nullptr);
   }
   return {{"predicted", predicted},
           {"stepped", stepped},
@@ -168,7 +171,7 @@ json start_prediction_json(const RunSummary& s) {
            "held, the negative sequence at slip 2 − s on the positive sequence's effective "
            "reluctivity); stepped: the analysis window of this run (currents: fundamental "
            "sequences of the winding branches, RMS; cage loss: its forward and backward waves' "
-           "shares). difference = (predicted − stepped) / |stepped|"}};
+           "shares). difference_pct: (predicted − stepped) / |stepped| per quantity, in %"}};
 }
 
 }  // namespace
