@@ -2,6 +2,8 @@
 
 #include "postproc/output_file.hpp"
 
+#include <algorithm>
+#include <cmath>
 #include <fstream>
 #include <nlohmann/json.hpp>
 #include <stdexcept>
@@ -163,9 +165,30 @@ json start_prediction_json(const RunSummary& s) {
     const std::string name = key.substr(0, key.rfind('_')) + "_pct";
     difference[name] = v != 0.0 ? json(100.0 * (q - v) / std::abs(v)) : json(nullptr);
   }
+  // What the harmonic model leaves out by construction, measured in the stepped run: the torque
+  // of the space harmonics (the total less the pole-pair wave's), the bars' current beyond their
+  // forward and backward waves, the cage loss beyond theirs.
+  json beyond = json::object();
+  if (s.power && s.torque_available && s.torque_mean_nm != 0.0)
+    beyond["torque_pct"] =
+        100.0 * (s.torque_mean_nm - s.power->fundamental_torque_nm) / std::abs(s.torque_mean_nm);
+  if (s.cage && f) {
+    const CageAnalysis& c = s.cage->analysis;
+    const double waves2 =
+        c.forward_bar_rms_a * c.forward_bar_rms_a + c.backward_bar_rms_a * c.backward_bar_rms_a;
+    const double rest2 = std::max(0.0, c.bar_rms_a * c.bar_rms_a - waves2);
+    if (c.bar_rms_a > 0.0) beyond["bar_current_rms_pct"] = 100.0 * std::sqrt(rest2) / c.bar_rms_a;
+    if (c.loss_w > 0.0) beyond["cage_loss_pct"] = 100.0 * c.loss_rest_w / c.loss_w;
+  }
+  if (!beyond.empty())
+    beyond["note"] =
+        "shares of the stepped run's torque, bar current (RMS) and cage loss that the slot and "
+        "space harmonics carry: what the harmonic model, holding one rotor position and the "
+        "fundamental, cannot predict";
   return {{"predicted", predicted},
           {"stepped", stepped},
           {"difference_pct", difference},
+          {"beyond_fundamental", beyond.empty() ? json(nullptr) : beyond},
           {"note",
            "predicted: the time-harmonic solution the run started from (supply fundamental, rotor "
            "held, the negative sequence at slip 2 − s on the positive sequence's effective "

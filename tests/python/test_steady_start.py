@@ -169,6 +169,11 @@ check(r.returncode == 0, f"linear unbalanced run failed ({r.returncode}): {r.std
 check("time-harmonic model (the start) against this run" in r.stdout,
       "the printed table lacks the prediction beside the stepped result")
 lin = json.load(open(os.path.join(linear_out, "summary.json")))["time_harmonic_start"]
+beyond = lin.get("beyond_fundamental") or {}
+check({"torque_pct", "bar_current_rms_pct", "cage_loss_pct"} <= set(beyond),
+      f"the slot harmonics' share is not reported: {beyond}")
+print("beyond the fundamental (linear):", {k: round(v, 3) for k, v in beyond.items()
+                                          if isinstance(v, float)})
 check(lin["stepped"]["current_negative_a"] > 0.01 * lin["stepped"]["current_positive_a"],
       f"the unbalanced supply drew no negative sequence: {lin['stepped']}")
 for name, tolerance_pct in (("torque_nm", 1.0), ("current_positive_a", 1.0),
