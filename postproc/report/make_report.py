@@ -83,6 +83,17 @@ def voltage_section(s, f):
          f'{ss.get("last_dc_pct") or 0:.3g} % ({"within" if ss.get("reached") else "NOT within"} '
          f'{ss.get("tolerance_pct", 0):g} %)'],
     ]
+    # Started from the time-harmonic solution: its prediction beside what the stepping gave.
+    th = s.get("time_harmonic_start")
+    if th:
+        p, q = th["predicted"], th["stepped"]
+        for key, label, unit in (("torque_nm", "torque", "N·m"),
+                                 ("current_positive_a", "current, positive sequence", "A"),
+                                 ("current_negative_a", "current, negative sequence", "A"),
+                                 ("cage_loss_w", "cage loss (forward + backward waves)", "W")):
+            if key in p and key in q:
+                rows.append([f"{label}: time-harmonic model / this run",
+                             f"{p[key]:.4g} / {q[key]:.4g} {unit}"])
     return ("<h2>Voltage feed</h2>" + table_html(["item", "value"], rows) +
             figure_html(fig, "Line-to-line supply voltages and line currents over the last period") +
             "<div class='caution'>" + html.escape(c["model"]) + "</div>")
