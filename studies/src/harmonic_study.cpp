@@ -108,15 +108,7 @@ void HarmonicStudy::solve() {
 }
 
 PointContext HarmonicStudy::point_context() const {
-  PointContext c;
-  c.system = system_.get();
-  c.winding = &winding_;
-  c.cage = cage_.get();
-  c.bar_of_region = &bar_of_region_;
-  c.omega_rad_per_s = omega_;
-  c.pole_pairs = case_.machine.pole_pairs();
-  c.stack_m = case_.machine.stack_length_m;
-  return c;
+  return gapflux::point_context(case_, *system_, winding_, cage_.get(), bar_of_region_, omega_);
 }
 
 void HarmonicStudy::write_output() {

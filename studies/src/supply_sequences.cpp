@@ -122,6 +122,20 @@ double HarmonicPoint::current_rms_a() const {
   return std::abs(current_seq.positive) / std::sqrt(2.0);
 }
 
+PointContext point_context(const Case& c, const MagnetostaticSystem& system,
+                           const HarmonicWinding& winding, const HarmonicCage* cage,
+                           const std::vector<int>& bar_of_region, double omega_rad_per_s) {
+  PointContext context;
+  context.system = &system;
+  context.winding = &winding;
+  context.cage = cage;
+  context.bar_of_region = &bar_of_region;
+  context.omega_rad_per_s = omega_rad_per_s;
+  context.pole_pairs = c.machine.pole_pairs();
+  context.stack_m = c.machine.stack_length_m;
+  return context;
+}
+
 HarmonicPoint evaluate_point(const PointContext& c, const SequenceFields& f, double slip) {
   HarmonicPoint p;
   p.slip = slip;

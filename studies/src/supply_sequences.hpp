@@ -88,6 +88,10 @@ struct PointContext {
   const std::vector<int>* bar_of_region = nullptr;
   double omega_rad_per_s = 0.0, pole_pairs = 1.0, stack_m = 0.0;
 };
+// The context of the case `c` on `system` (the pointers are kept, not copied).
+PointContext point_context(const Case& c, const MagnetostaticSystem& system,
+                           const HarmonicWinding& winding, const HarmonicCage* cage,
+                           const std::vector<int>& bar_of_region, double omega_rad_per_s);
 HarmonicPoint evaluate_point(const PointContext& context, const SequenceFields& fields,
                              double slip);
 

@@ -82,15 +82,8 @@ void TransientStudy::start_from_harmonic(MagnetostaticSystem& system, const Regi
   }
 
   // What the harmonic model predicts for this run, shown beside the stepped result at the end.
-  PointContext context;
-  context.system = &system;
-  context.winding = &winding;
-  context.cage = cage.get();
-  context.bar_of_region = &bar_of_region_;
-  context.omega_rad_per_s = omega;
-  context.pole_pairs = case_.machine.pole_pairs();
-  context.stack_m = case_.machine.stack_length_m;
-  const HarmonicPoint point = evaluate_point(context, f, slip);
+  const HarmonicPoint point = evaluate_point(
+      point_context(case_, system, winding, cage.get(), bar_of_region_, omega), f, slip);
   const double root2 = std::sqrt(2.0);
   const std::vector<double> predicted{slip,
                                       point.torque_nm,

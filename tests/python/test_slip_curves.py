@@ -49,6 +49,7 @@ shutil.rmtree(tmp, ignore_errors=True)
 os.makedirs(tmp)
 sys.path.insert(0, os.path.dirname(__file__))
 from cage_case import cage_case, coarse_demo
+from report_page import report_page
 from tally import check, finish
 
 demo = coarse_demo(examples, "pump_4p36s_running.toml")
@@ -137,12 +138,9 @@ print(f"sequence impedances: standstill Z1 {z1[0]:.4f} Ω ∠{a1[0]:.2f}°, Z2 {
 
 # The report draws the curves (postproc/report/make_report.py, matplotlib): one embedded PNG
 # that decodes, and the cautions on the page.
-report = os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "postproc", "report",
-                      "make_report.py")
-r = subprocess.run([sys.executable, report, out], capture_output=True, text=True)
-check(r.returncode == 0, f"report failed: {r.stderr[-800:]}")
-if r.returncode == 0:
-    page = open(os.path.join(out, "report.html")).read()
+code, stderr, page = report_page(out)
+check(code == 0, f"report failed: {stderr[-800:]}")
+if page is not None:
     images = re.findall(r"base64,([A-Za-z0-9+/=]+)", page)
     check(len(images) == 1 and base64.b64decode(images[0])[:8] == b"\x89PNG\r\n\x1a\n",
           f"report: {len(images)} images")

@@ -45,6 +45,7 @@ shutil.rmtree(tmp, ignore_errors=True)
 os.makedirs(tmp)
 sys.path.insert(0, os.path.dirname(__file__))
 from cage_case import cage_case, coarse_demo
+from report_page import report_page
 from tally import check, finish
 
 demo = coarse_demo(examples, "pump_4p36s_running.toml", steps_per_period=72)
@@ -172,12 +173,9 @@ lin = json.load(open(os.path.join(linear_out, "summary.json")))["time_harmonic_s
 beyond = lin.get("beyond_fundamental") or {}
 check({"torque_pct", "bar_current_rms_pct", "cage_loss_pct"} <= set(beyond),
       f"the slot harmonics' share is not reported: {beyond}")
-report = os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "postproc", "report",
-                      "make_report.py")
-r = subprocess.run([sys.executable, report, linear_out], capture_output=True, text=True)
-check(r.returncode == 0, f"report failed: {r.stderr[-800:]}")
-if r.returncode == 0:
-    page = open(os.path.join(linear_out, "report.html")).read()
+code, stderr, page = report_page(linear_out)
+check(code == 0, f"report failed: {stderr[-800:]}")
+if page is not None:
     check(page.count("time-harmonic model / this run") >= 3,
           "the report lacks the time-harmonic prediction beside the stepped result")
 print("beyond the fundamental (linear):", {k: round(v, 3) for k, v in beyond.items()
