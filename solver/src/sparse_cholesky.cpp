@@ -6,6 +6,8 @@
 #include <cstring>
 #include <stdexcept>
 
+#include "blas_threads.hpp"
+
 namespace gapflux {
 
 struct SparseCholesky::State {
@@ -26,7 +28,9 @@ struct SparseCholesky::State {
   }
 };
 
-SparseCholesky::SparseCholesky() : state_(std::make_unique<State>()) {}
+SparseCholesky::SparseCholesky() : state_(std::make_unique<State>()) {
+  keep_blas_serial();
+}
 SparseCholesky::~SparseCholesky() = default;
 
 bool SparseCholesky::analyze(int n, const std::vector<int>& column_starts,

@@ -2,6 +2,7 @@
 
 #include <Eigen/UmfPackSupport>
 
+#include "blas_threads.hpp"
 #include "solver/newton.hpp"
 
 namespace gapflux {
@@ -18,6 +19,7 @@ SparseLu::SparseLu() : state_(std::make_unique<State>()) {
   // which measured half of a time-harmonic study's time (perf: UMFPACK's solves and the
   // refinement's norms) for changes far below the effective-reluctivity iteration's tolerance.
   state_->lu.umfpackControl()(UMFPACK_IRSTEP) = 0;
+  keep_blas_serial();
 }
 SparseLu::~SparseLu() = default;
 
