@@ -1,20 +1,15 @@
 #include "blas_threads.hpp"
 
-#include <dlfcn.h>
-
-#include <mutex>
+#include <omp.h>
 
 namespace gapflux {
 
-void keep_blas_serial() {
-  static std::once_flag once;
-  std::call_once(once, [] {
-    // Looked up at run time: the library behind libblas.so.3 is chosen by the system's
-    // alternatives, not at build time.
-    using SetThreads = void (*)(int);
-    if (auto set = reinterpret_cast<SetThreads>(dlsym(RTLD_DEFAULT, "openblas_set_num_threads")))
-      set(1);
-  });
+SerialBlas::SerialBlas() : threads_(omp_get_max_threads()) {
+  if (threads_ > 1) omp_set_num_threads(1);
+}
+
+SerialBlas::~SerialBlas() {
+  if (threads_ > 1) omp_set_num_threads(threads_);
 }
 
 }  // namespace gapflux

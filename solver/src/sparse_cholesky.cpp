@@ -28,9 +28,7 @@ struct SparseCholesky::State {
   }
 };
 
-SparseCholesky::SparseCholesky() : state_(std::make_unique<State>()) {
-  keep_blas_serial();
-}
+SparseCholesky::SparseCholesky() : state_(std::make_unique<State>()) {}
 SparseCholesky::~SparseCholesky() = default;
 
 bool SparseCholesky::analyze(int n, const std::vector<int>& column_starts,
@@ -59,7 +57,10 @@ FactorResult SparseCholesky::factorize(const std::vector<double>& values) {
   std::memcpy(s.matrix->x, values.data(), sizeof(double) * values.size());
   FactorResult r;
   has_factor_ = false;
-  cholmod_factorize(s.matrix, s.factor, &s.common);
+  {
+    const SerialBlas serial;
+    cholmod_factorize(s.matrix, s.factor, &s.common);
+  }
   if (s.common.status == CHOLMOD_NOT_POSDEF) {
     r.status = FactorStatus::not_positive_definite;
     r.bad_column = static_cast<int>(s.factor->minor);
@@ -82,7 +83,11 @@ void SparseCholesky::solve(const double* b, double* x) const {
   const int n = static_cast<int>(s.matrix->nrow);
   cholmod_dense* rhs = cholmod_allocate_dense(n, 1, n, CHOLMOD_REAL, &s.common);
   std::memcpy(rhs->x, b, sizeof(double) * n);
-  cholmod_dense* sol = cholmod_solve(CHOLMOD_A, s.factor, rhs, &s.common);
+  cholmod_dense* sol = nullptr;
+  {
+    const SerialBlas serial;
+    sol = cholmod_solve(CHOLMOD_A, s.factor, rhs, &s.common);
+  }
   std::memcpy(x, sol->x, sizeof(double) * n);
   cholmod_free_dense(&sol, &s.common);
   cholmod_free_dense(&rhs, &s.common);

@@ -19,7 +19,6 @@ SparseLu::SparseLu() : state_(std::make_unique<State>()) {
   // which measured half of a time-harmonic study's time (perf: UMFPACK's solves and the
   // refinement's norms) for changes far below the effective-reluctivity iteration's tolerance.
   state_->lu.umfpackControl()(UMFPACK_IRSTEP) = 0;
-  keep_blas_serial();
 }
 SparseLu::~SparseLu() = default;
 
@@ -29,12 +28,16 @@ void SparseLu::factorize(Eigen::SparseMatrix<std::complex<double>> a) {
     state_->lu.analyzePattern(state_->matrix);
     state_->nonzeros = state_->matrix.nonZeros();
   }
-  state_->lu.factorize(state_->matrix);
+  {
+    const SerialBlas serial;
+    state_->lu.factorize(state_->matrix);
+  }
   if (state_->lu.info() != Eigen::Success)
     throw NumericalError("UMFPACK could not factorise the time-harmonic system (singular?)", {});
 }
 
 Eigen::MatrixXcd SparseLu::solve(const Eigen::MatrixXcd& b) const {
+  const SerialBlas serial;
   Eigen::MatrixXcd x = state_->lu.solve(b);
   if (state_->lu.info() != Eigen::Success)
     throw NumericalError("UMFPACK's solve of the time-harmonic system failed", {});
