@@ -24,6 +24,37 @@ double wrapped_deg(double rad) {
   return d;
 }
 
+// What the settings' accuracy was on the demo motor's convergence study, and what scale 1 is.
+void print_mesh_accuracy(std::ostream& out, const MeshSettings& mesh) {
+  const MeshAccuracy& a = mesh.forecast.accuracy;
+  fmt::print(
+      out,
+      "# mesh scale {:.3g} (sizes over the base: airgap / 2 in the gap, stator slot pitch / 3 "
+      "in the iron, growth 0.2; the default is {:g})\n",
+      a.scale, default_mesh_scale);
+  const char* what =
+      "airgap harmonics, torque mean and ripple, flux linkage, induced cage current; measured on "
+      "the demo pump motor by bench/mesh_convergence.py, another lamination may differ";
+  switch (a.basis) {
+    case MeshAccuracy::Basis::measured:
+      fmt::print(out, "# accuracy: within about {:.2g} % of a converged mesh ({})\n", a.worst_pct,
+                 what);
+      break;
+    case MeshAccuracy::Basis::finer_than_measured:
+      fmt::print(out,
+                 "# accuracy: finer than the convergence study's settings of order {}, whose "
+                 "finest was within {:.2g} % of a converged mesh ({})\n",
+                 mesh.order, a.worst_pct, what);
+      break;
+    case MeshAccuracy::Basis::coarser_than_measured:
+      fmt::print(out,
+                 "# accuracy: not known: coarser than the convergence study's settings of order "
+                 "{}, whose coarsest was already {:.2g} % from a converged mesh ({})\n",
+                 mesh.order, a.worst_pct, what);
+      break;
+  }
+}
+
 }  // namespace
 
 void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam,
@@ -153,6 +184,7 @@ void print_resolved_case(std::ostream& out, const Case& c, const Lamination& lam
       "the modelled sector\n",
       mesh.order, mesh.airgap_size_m / mm, mesh.iron_size_m / mm, mesh.growth_rate, mesh.band_nodes,
       to_string(c.mesh.symmetry), mesh.forecast.triangles / 1e3);
+  print_mesh_accuracy(out, mesh);
   const StudySpec& st = c.study;
   const bool stepping = st.kind == StudyKind::time_stepping;
   const char* kind = stepping                              ? "time_stepping"

@@ -217,9 +217,10 @@ MeshSettings resolve_mesh_settings(const Case& c, const Lamination& lam) {
   MeshSettings s;
   s.order = c.mesh.order;
   s.growth_rate = c.mesh.growth_rate;
-  s.airgap_size_m = c.mesh.airgap_size_m > 0.0 ? c.mesh.airgap_size_m : 0.5 * lam.airgap_m();
+  s.airgap_size_m = c.mesh.airgap_size_m > 0.0 ? c.mesh.airgap_size_m
+                                               : default_mesh_scale * base_airgap_size_m(lam);
   s.iron_size_m =
-      c.mesh.iron_size_m > 0.0 ? c.mesh.iron_size_m : lam.slot.slot_pitch_at_bore_m / 3.0;
+      c.mesh.iron_size_m > 0.0 ? c.mesh.iron_size_m : default_mesh_scale * base_iron_size_m(lam);
   s.iron_size_m = std::max(s.iron_size_m, s.airgap_size_m);
   // The band circles carry the same uniform nodes; each sector edge of each circle is split
   // into arcs of at most a quarter turn, each of which must hold a whole number of intervals.

@@ -3,8 +3,10 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <numbers>
+#include <span>
 
 #include "geometry/mesher.hpp"
 
@@ -59,7 +61,59 @@ std::vector<Feature> thin_features(const Case& c, const Lamination& lam) {
   return out;
 }
 
+// The convergence study of the demo pump motor (bench/mesh_convergence.py, run 2026-12-03;
+// docs/performance.md): per order, each measured scale with the largest difference from the
+// converged mesh over it and every finer scale (so the figures never fall with a coarser mesh).
+struct MeasuredScale {
+  double scale, worst_pct;
+};
+constexpr std::array<MeasuredScale, 4> first_order_study{
+    {{0.35, 1.028}, {0.5, 1.028}, {0.7, 1.028}, {1.0, 1.028}}};
+constexpr std::array<MeasuredScale, 6> second_order_study{
+    {{0.35, 0.029}, {0.5, 0.034}, {0.7, 0.110}, {1.0, 0.249}, {1.4, 0.249}, {2.0, 0.551}}};
+
 }  // namespace
+
+double base_airgap_size_m(const Lamination& lam) {
+  return 0.5 * lam.airgap_m();
+}
+
+double base_iron_size_m(const Lamination& lam) {
+  return lam.slot.slot_pitch_at_bore_m / 3.0;
+}
+
+double mesh_scale(const Lamination& lam, const MeshSettings& s) {
+  const double band_pitch_m =
+      s.band_nodes > 0 ? 2.0 * std::numbers::pi * lam.band_mid_radius_m() / s.band_nodes : 0.0;
+  const double sizes =
+      std::max({s.airgap_size_m / base_airgap_size_m(lam), s.iron_size_m / base_iron_size_m(lam),
+                band_pitch_m / base_airgap_size_m(lam)});
+  // Faster growth makes the elements away from the gap larger by up to its ratio; slower growth
+  // is not credited (the study kept the base rate).
+  return sizes * std::max(1.0, s.growth_rate / base_growth_rate);
+}
+
+MeshAccuracy estimate_mesh_accuracy(const Lamination& lam, const MeshSettings& s) {
+  MeshAccuracy a;
+  a.scale = mesh_scale(lam, s);
+  const std::span<const MeasuredScale> study =
+      s.order == 1 ? std::span<const MeasuredScale>(first_order_study)
+                   : std::span<const MeasuredScale>(second_order_study);
+  const double slack = 1.02;  // a scale a rounding away from a measured one is that one
+  if (a.scale > study.back().scale * slack) {
+    a.basis = MeshAccuracy::Basis::coarser_than_measured;
+    a.worst_pct = study.back().worst_pct;
+    return a;
+  }
+  if (a.scale * slack < study.front().scale) a.basis = MeshAccuracy::Basis::finer_than_measured;
+  // The next coarser measured scale bounds the figure.
+  for (const MeasuredScale& m : study)
+    if (m.scale * slack >= a.scale) {
+      a.worst_pct = m.worst_pct;
+      break;
+    }
+  return a;
+}
 
 double local_mesh_size_m(const Lamination& lam, const MeshSettings& s, double distance_m) {
   const double from_edge = std::max(0.0, distance_m - 0.5 * lam.airgap_m());
@@ -99,6 +153,7 @@ MeshForecast forecast_mesh(const Case& c, const Lamination& lam, const MeshSetti
     triangles += 2.0 * std::numbers::pi * r * (r_out - r_in) / rings / (0.433 * h * h);
   }
   f.triangles = 1.3 * triangles / std::max(1, lam.symmetry.sectors);
+  f.accuracy = estimate_mesh_accuracy(lam, s);
   const double order_factor = s.order == 2 ? 2.0 : 0.5;  // DOFs per triangle, roughly
   if (order_factor * f.triangles > unknowns_refused)
     throw c.sources.error(

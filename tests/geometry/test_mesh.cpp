@@ -212,6 +212,39 @@ TEST_CASE("the mesh forecast: triangle count within a factor 1.5, thin features 
                                                      "bridge is 0.06 mm wide"));
 }
 
+TEST_CASE("the mesh's accuracy: its scale over the base sizes, the convergence study's figure",
+          "[geometry]") {
+  // Not physics: the lookup of the figures bench/mesh_convergence.py measured on the demo
+  // (docs/performance.md). The scale is the coarsest of the sizes over the base sizes.
+  auto settings = [](const std::string& mesh_keys, int band_nodes = 1512, int order = 2) {
+    std::string text = test::read_text(test::example("pump_4p36s.toml"));
+    text.replace(text.find("order = 2"), 9, "order = " + std::to_string(order));
+    text.replace(text.find("band_nodes = 1512"), 17, "band_nodes = " + std::to_string(band_nodes));
+    text.replace(text.find("[mesh]"), 6, "[mesh]\n" + mesh_keys);
+    const Case c = read_case_text(text, "accuracy.toml");
+    const Lamination lam = build_lamination(c);
+    return resolve_mesh_settings(c, lam).forecast.accuracy;
+  };
+  const MeshAccuracy by_default = settings("");
+  CHECK(by_default.scale == Approx(default_mesh_scale).epsilon(1e-12));
+  CHECK(by_default.basis == MeshAccuracy::Basis::measured);
+  CHECK(by_default.worst_pct <= 0.5);  // the rule the default was chosen by
+  // Half the airgap (0.45 mm) as airgap size is scale 2: coarser, a larger figure.
+  const MeshAccuracy coarse = settings("airgap_size_mm = 0.45\n");
+  CHECK(coarse.scale == Approx(2.0).epsilon(1e-12));
+  CHECK(coarse.worst_pct > by_default.worst_pct);
+  // A growth rate of 0.6 (three times the base) on the default sizes: scale 4.2.
+  const MeshAccuracy growth = settings("growth_rate = 0.6\n");
+  CHECK(growth.scale == Approx(3.0 * default_mesh_scale).epsilon(1e-12));
+  CHECK(growth.basis == MeshAccuracy::Basis::coarser_than_measured);
+  // Fine everywhere: below the study's finest, with its figure.
+  const MeshAccuracy fine = settings("airgap_size_mm = 0.05\niron_size_mm = 0.8\n", 9072);
+  CHECK(fine.basis == MeshAccuracy::Basis::finer_than_measured);
+  CHECK(fine.worst_pct < by_default.worst_pct);
+  // First order at the default sizes: coarser than the first-order series went.
+  CHECK(settings("", 1512, 1).basis == MeshAccuracy::Basis::coarser_than_measured);
+}
+
 TEST_CASE("meshing leaves the thread count the program asked for", "[geometry]") {
   // Gmsh sets OpenMP to one thread while it meshes (toolchain.md: 2 before, 1 after); the
   // solver after it must run on the threads asked for.
