@@ -29,7 +29,7 @@ TEST_CASE("demo case reads with SI units and documented defaults", "[cases]") {
   CHECK(c.supply.phases[1].angle_rad == Approx(-2.0 * std::numbers::pi / 3.0));
   CHECK(c.supply.phases[2].angle_rad == Approx(-4.0 * std::numbers::pi / 3.0));
   CHECK(c.supply.phases[2].rms == Approx(9.0));
-  CHECK(c.mesh.band_nodes == 2016);
+  CHECK(c.mesh.band_nodes == 1512);
   CHECK(c.mesh.growth_rate == Approx(0.2));
 }
 

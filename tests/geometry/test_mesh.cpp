@@ -94,7 +94,10 @@ TEST_CASE("demo meshes: exact and meshed areas, quality, sector edges, band ring
 
       // Quality on the vertex triangles.
       CHECK(q.min_angle_deg >= 20.0);
-      CHECK(q.max_aspect_ratio < 3.0);
+      // The airgap's layers are the most stretched (each a third of the gap thick, with
+      // elements of the default airgap size, 0.7 × the gap): 3.05 at most on these; the
+      // convergence study (docs/performance.md) puts such meshes within 0.25 % of converged.
+      CHECK(q.max_aspect_ratio < 3.5);
       std::size_t inverted = 0;
       for (std::size_t t = 0; t < mesh.n_triangles(); ++t)
         inverted += triangle_area(mesh, t) <= 0.0;
