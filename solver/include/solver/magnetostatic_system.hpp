@@ -27,6 +27,11 @@ class MagnetostaticSystem {
   // The tangent at x() solved for each column of `rhs` (one factorisation): the linearised
   // field's response, e.g. the unsaturated inductances at x() = 0. Throws NumericalError.
   Eigen::MatrixXd solve_tangent(const RegionModel& model, const Eigen::MatrixXd& rhs);
+  // The factor's memory back (a later solve analyses and factorises afresh).
+  void release_factor() { cholesky_.release(); }
+  // A system solved at one rotor position only: nested dissection (SparseCholesky::Ordering).
+  void set_ordering(Ordering o) { cholesky_.set_ordering(o); }
+  std::size_t factor_nonzeros() const { return cholesky_.factor_nonzeros(); }
 
   const Mesh& mesh() const { return mesh_; }
   const BandMesh& band() const { return band_; }

@@ -9,6 +9,8 @@ namespace gapflux {
 
 enum class FactorStatus { ok, not_positive_definite, ill_conditioned, failed };
 
+enum class Ordering { minimum_degree, nested_dissection };
+
 struct FactorResult {
   FactorStatus status = FactorStatus::ok;
   int bad_column = -1;  // first column where a pivot was not positive
@@ -30,6 +32,12 @@ class SparseCholesky {
   bool has_factor() const { return has_factor_; }
   // x = A⁻¹ b with the last factor.
   void solve(const double* b, double* x) const;
+  // Frees the factor and the analysis (the next analyze() starts afresh): a run that has no
+  // further use for them gives their memory, the largest of a solve, to its output.
+  void release();
+  // The fill-reducing ordering of the next analyses (sparse_cholesky.cpp has the figures):
+  // minimum degree by default, nested dissection for a system solved at one pattern only.
+  void set_ordering(Ordering o) { ordering_ = o; }
   int analyses() const { return analyses_; }
   std::size_t factor_nonzeros() const;
 
@@ -38,6 +46,7 @@ class SparseCholesky {
   std::unique_ptr<State> state_;
   int analyses_ = 0;
   bool has_factor_ = false;
+  Ordering ordering_ = Ordering::minimum_degree;
 };
 
 }  // namespace gapflux
