@@ -25,25 +25,17 @@ Usage: bench/mesh_convergence.py [--gapflux PATH] [--quick] [--tol PCT] [--out D
   --quick  four settings instead of eleven and no time-harmonic part (about a tenth of the time)
 Runs with OMP_NUM_THREADS as set (default: the machine's cores).
 """
-import argparse
-import json
 import os
 import re
 import shutil
-import subprocess
-import sys
-import time
 
 import h5py
 import numpy as np
 
-here = os.path.dirname(os.path.abspath(__file__))
-root = os.path.dirname(here)
-parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
-parser.add_argument("--gapflux", default=os.path.join(root, "build", "gapflux"))
-parser.add_argument("--quick", action="store_true")
+from bench_runs import here, parser, root, run_case
+
+parser = parser(__doc__, "mesh_convergence")
 parser.add_argument("--tol", type=float, default=0.5)
-parser.add_argument("--out", default=os.path.join(root, "build", "mesh_convergence"))
 args = parser.parse_args()
 
 # (order, x), coarsest first per order; the last second-order setting is the reference.
@@ -75,16 +67,7 @@ def mesh_table(order, x):
 
 
 def run(name, text):
-    path = os.path.join(args.out, name + ".toml")
-    open(path, "w").write(text)
-    out = os.path.join(args.out, name)
-    start = time.monotonic()
-    r = subprocess.run([args.gapflux, "run", path, "--out", out, "--lean"], capture_output=True,
-                       text=True)
-    wall = time.monotonic() - start
-    if r.returncode != 0:
-        sys.exit(f"mesh_convergence: {name} failed ({r.returncode}): {r.stderr[-1500:]}")
-    summary = json.load(open(os.path.join(out, "summary.json")))
+    out, summary, wall = run_case(args.gapflux, args.out, name, text, "mesh_convergence")
     print(f"ran {name}: {summary['mesh']['dofs']} DOFs, {wall:.1f} s", flush=True)
     return out, summary, wall
 

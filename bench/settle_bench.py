@@ -12,26 +12,18 @@ Usage: bench/settle_bench.py [--gapflux PATH] [--quick] [--periods N] [--record]
              torque of periods 1…PERIODS, once
 Runs with OMP_NUM_THREADS as set (default: the machine's cores).
 """
-import argparse
-import json
 import os
 import re
 import shutil
-import subprocess
 import sys
-import time
 
 import h5py
-import numpy as np
 
-here = os.path.dirname(os.path.abspath(__file__))
-root = os.path.dirname(here)
-parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
-parser.add_argument("--gapflux", default=os.path.join(root, "build", "gapflux"))
-parser.add_argument("--quick", action="store_true")
+from bench_runs import parser, root, run_case
+
+parser = parser(__doc__, "settle_bench")
 parser.add_argument("--periods", type=int, default=10)
 parser.add_argument("--record", action="store_true")
-parser.add_argument("--out", default=os.path.join(root, "build", "settle_bench"))
 args = parser.parse_args()
 if args.periods < 3:
     sys.exit("settle_bench: --periods must be 3 or more")
@@ -49,16 +41,8 @@ os.makedirs(args.out)
 
 
 def run(name, extra):
-    path = os.path.join(args.out, name + ".toml")
-    open(path, "w").write(case.replace("slip = 0.03", "slip = 0.03" + extra))
-    out = os.path.join(args.out, name)
-    start = time.monotonic()
-    r = subprocess.run([args.gapflux, "run", path, "--out", out, "--lean"], capture_output=True,
-                       text=True)
-    wall = time.monotonic() - start
-    if r.returncode != 0:
-        sys.exit(f"settle_bench: {name} failed ({r.returncode}): {r.stderr[-1500:]}")
-    s = json.load(open(os.path.join(out, "summary.json")))
+    out, s, wall = run_case(args.gapflux, args.out, name,
+                            case.replace("slip = 0.03", "slip = 0.03" + extra), "settle_bench")
     with h5py.File(os.path.join(out, "results.h5"), "r") as f:
         spp = int(f.attrs["steps_per_period"])
         torque = f["steps/torque"][:, 0]
