@@ -47,11 +47,11 @@ bool SparseCholesky::analyze(int n, const std::vector<int>& column_starts,
   if (!s.matrix) throw std::runtime_error("CHOLMOD could not allocate the matrix");
   std::memcpy(s.matrix->p, column_starts.data(), sizeof(int) * (n + 1));
   std::memcpy(s.matrix->i, row_indices.data(), sizeof(int) * nnz);
-  // Orderings measured on the demo's meshes: nested dissection (METIS) fills 15–17 % less than
-  // AMD and needs 40 % fewer flops, but computing it costs about 8 analyses by AMD (2 s at
-  // 280 k unknowns). A single solve gains; a rotor step, which needs a new analysis each time,
-  // does not (given the first step's ordering again, fill grows as the rotor turns: the band's
-  // connections move).
+  // Orderings measured on the demo's meshes (docs/performance.md): nested dissection (METIS)
+  // fills 15–17 % less than AMD and needs 40 % fewer flops, but computing it costs about 2 s at
+  // 280 k unknowns: a static run there peaks 7 % lower and takes 4–9 % longer. A rotor step,
+  // which needs a new analysis each time, loses (given the first step's ordering again, the
+  // fill grows as the rotor turns: the band's connections move).
   s.common.nmethods = 1;
   s.common.method[0].ordering =
       ordering_ == Ordering::nested_dissection ? CHOLMOD_METIS : CHOLMOD_AMD;
