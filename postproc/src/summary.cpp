@@ -209,7 +209,10 @@ void write_summary_json(const std::string& path, const RunSummary& s) {
                {"dofs", s.dofs},
                {"min_angle_deg", s.min_angle_deg},
                {"sectors", s.sectors},
-               {"antiperiodic", s.antiperiodic}};
+               {"antiperiodic", s.antiperiodic},
+               {"scale", s.mesh_scale},
+               {"accuracy_pct", s.mesh_accuracy_pct},
+               {"accuracy_basis", s.mesh_accuracy_basis}};
   json factors = json::array();
   for (const WindingFactor& f : s.factors)
     factors.push_back({{"order", f.order},

@@ -2,6 +2,8 @@
 
 #include <numbers>
 
+#include "geometry/mesher.hpp"
+
 namespace gapflux {
 
 RunSummary common_summary(const Case& c, const Lamination& lamination, const Mesh& mesh,
@@ -16,6 +18,13 @@ RunSummary common_summary(const Case& c, const Lamination& lamination, const Mes
   s.min_angle_deg = quality.min_angle_deg;
   s.sectors = mesh.symmetry.sectors;
   s.antiperiodic = mesh.symmetry.antiperiodic;
+  const MeshAccuracy accuracy = resolve_mesh_settings(c, lamination).forecast.accuracy;
+  s.mesh_scale = accuracy.scale;
+  s.mesh_accuracy_pct = accuracy.worst_pct;
+  s.mesh_accuracy_basis = accuracy.basis == MeshAccuracy::Basis::measured ? "measured"
+                          : accuracy.basis == MeshAccuracy::Basis::finer_than_measured
+                              ? "finer_than_measured"
+                              : "coarser_than_measured";
   const WindingLayout& w = lamination.winding;
   s.slots = w.slots;
   s.poles = 2 * w.pole_pairs;

@@ -59,6 +59,10 @@ summary = json.load(open(os.path.join(out, "summary.json")))
 check(summary["schema"] == "gapflux-summary/1", "schema")
 for key in ["vertices", "triangles", "order", "dofs", "min_angle_deg"]:
     check(key in summary["mesh"], f"summary.mesh.{key} missing")
+# The compressor's default sizes: scale 1.4 of the base (its band of 1560 nodes is finer), the
+# convergence study's figure there (geometry/src/mesh_forecast.cpp).
+check(abs(summary["mesh"]["scale"] - 1.4) < 1e-9 and summary["mesh"]["accuracy_pct"] == 0.249
+      and summary["mesh"]["accuracy_basis"] == "measured", f"mesh accuracy {summary['mesh']}")
 for key in ["slots", "poles", "layers", "coil_pitch_slots", "factors"]:
     check(key in summary["winding"], f"summary.winding.{key} missing")
 for key in ["steps", "newton_iterations", "newton_factorizations", "cg_iterations", "wall_s"]:

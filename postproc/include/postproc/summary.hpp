@@ -22,6 +22,9 @@ struct RunSummary {
   std::size_t vertices = 0, triangles = 0, dofs = 0;
   int order = 2;
   double min_angle_deg = 0.0;
+  double mesh_scale = 0.0;          // the sizes over the base sizes (geometry/mesh_forecast)
+  double mesh_accuracy_pct = 0.0;   // what the demo's convergence study measured there
+  std::string mesh_accuracy_basis;  // measured, finer_than_measured, coarser_than_measured
   int sectors = 1;
   bool antiperiodic = false;
   // winding
